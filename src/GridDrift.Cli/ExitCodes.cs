@@ -1,0 +1,10 @@
+namespace GridDrift.Cli;
+
+/// <summary>The exit codes of DESIGN.md.</summary>
+public static class ExitCodes
+{
+    public const int Success = 0;
+    public const int Usage = 1;
+    public const int BadInput = 2;
+    public const int InternalFault = 3;
+}

@@ -1,0 +1,13 @@
+namespace GridDrift.Conventions.Coordinates;
+
+/// <summary>What a coordinate variable measures (CF Conventions §4).</summary>
+public enum AxisRole
+{
+    None,
+    Time,
+    Latitude,
+    Longitude,
+    Vertical,
+    ProjectionX,
+    ProjectionY,
+}

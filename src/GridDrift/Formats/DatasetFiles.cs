@@ -1,0 +1,50 @@
+using GridDrift.Formats.Classic;
+using GridDrift.Formats.Hdf5;
+
+namespace GridDrift.Formats;
+
+/// <summary>Opens any supported file: the format is sniffed from its magic bytes, never from its name.</summary>
+public static class DatasetFiles
+{
+    static ReadOnlySpan<byte> Hdf5Signature => [0x89, (byte)'H', (byte)'D', (byte)'F', (byte)'\r', (byte)'\n', 0x1A, (byte)'\n'];
+
+    public static IDatasetReader Open(string path)
+    {
+        if (Directory.Exists(path)) throw new BadInputException(path, null, "is a directory, not a NetCDF file");
+        if (!File.Exists(path)) throw new BadInputException(path, null, "no such file");
+        Span<byte> head = stackalloc byte[8];
+        int n;
+        try
+        {
+            using var handle = File.OpenHandle(path, FileMode.Open, FileAccess.Read, FileShare.Read);
+            n = RandomAccess.Read(handle, head, 0);
+            if (n < 8 || !head.SequenceEqual(Hdf5Signature))
+            {
+                // HDF5 allows a user block of 512, 1024, 2048 … bytes before the superblock.
+                long length = RandomAccess.GetLength(handle);
+                for (long offset = 512; offset + 8 <= length && offset <= 1 << 20; offset *= 2)
+                {
+                    if (RandomAccess.Read(handle, head, offset) == 8 && head.SequenceEqual(Hdf5Signature))
+                        return Hdf5Reader.Open(path);
+                }
+                if (n == 8) RandomAccess.Read(handle, head, 0);
+            }
+        }
+        catch (UnauthorizedAccessException)
+        {
+            throw new BadInputException(path, null, "permission denied");
+        }
+        catch (IOException e)
+        {
+            throw new BadInputException(path, null, $"cannot be read ({e.Message})");
+        }
+        if (n == 0) throw new BadInputException(path, null, "file is empty");
+        if (n >= 4 && head[0] == 'C' && head[1] == 'D' && head[2] == 'F')
+        {
+            if (head[3] is 1 or 2 or 5) return ClassicReader.Open(path);
+            throw new BadInputException(path, null, $"unknown NetCDF classic version byte {head[3]}");
+        }
+        if (n == 8 && head.SequenceEqual(Hdf5Signature)) return Hdf5Reader.Open(path);
+        throw new BadInputException(path, null, "not a NetCDF file (neither the classic nor the HDF5 signature)");
+    }
+}

@@ -1,0 +1,75 @@
+using System.Buffers.Binary;
+using System.Numerics.Tensors;
+using System.Runtime.InteropServices;
+
+namespace GridDrift.Formats;
+
+/// <summary>Conversions of raw, little-endian typed bytes, vectorised through TensorPrimitives.</summary>
+public static class RawValues
+{
+    public static void RequireNumericOrChar(string path, NcVariable variable)
+    {
+        if (variable.Type == NcType.Char) return;
+        RequireNumeric(path, variable);
+    }
+
+    public static void RequireNumeric(string path, NcVariable variable)
+    {
+        if (variable.Type == NcType.Unsupported)
+            throw new BadInputException(path, variable.Name,
+                $"is of the {variable.UnsupportedKind} type, which GridDrift lists but does not read");
+        if (!NcTypes.IsNumeric(variable.Type))
+            throw new BadInputException(path, variable.Name, $"is of type {variable.TypeName}, not numeric");
+    }
+
+    public static void ToDouble(NcType type, ReadOnlySpan<byte> raw, Span<double> destination)
+    {
+        switch (type)
+        {
+            case NcType.Byte: TensorPrimitives.ConvertChecked<sbyte, double>(MemoryMarshal.Cast<byte, sbyte>(raw), destination); break;
+            case NcType.Char:
+            case NcType.UByte: TensorPrimitives.ConvertChecked<byte, double>(raw, destination); break;
+            case NcType.Short: TensorPrimitives.ConvertChecked<short, double>(MemoryMarshal.Cast<byte, short>(raw), destination); break;
+            case NcType.UShort: TensorPrimitives.ConvertChecked<ushort, double>(MemoryMarshal.Cast<byte, ushort>(raw), destination); break;
+            case NcType.Int: TensorPrimitives.ConvertChecked<int, double>(MemoryMarshal.Cast<byte, int>(raw), destination); break;
+            case NcType.UInt: TensorPrimitives.ConvertChecked<uint, double>(MemoryMarshal.Cast<byte, uint>(raw), destination); break;
+            case NcType.Int64: TensorPrimitives.ConvertTruncating<long, double>(MemoryMarshal.Cast<byte, long>(raw), destination); break;
+            case NcType.UInt64: TensorPrimitives.ConvertTruncating<ulong, double>(MemoryMarshal.Cast<byte, ulong>(raw), destination); break;
+            case NcType.Float: TensorPrimitives.ConvertChecked<float, double>(MemoryMarshal.Cast<byte, float>(raw), destination); break;
+            case NcType.Double: MemoryMarshal.Cast<byte, double>(raw).CopyTo(destination); break;
+            default: throw new ArgumentOutOfRangeException(nameof(type), type, "not a numeric type");
+        }
+    }
+
+    public static void ToSingle(NcType type, ReadOnlySpan<byte> raw, Span<float> destination)
+    {
+        switch (type)
+        {
+            case NcType.Float: MemoryMarshal.Cast<byte, float>(raw).CopyTo(destination); break;
+            case NcType.Double: TensorPrimitives.ConvertTruncating<double, float>(MemoryMarshal.Cast<byte, double>(raw), destination); break;
+            case NcType.Short: TensorPrimitives.ConvertChecked<short, float>(MemoryMarshal.Cast<byte, short>(raw), destination); break;
+            case NcType.Int: TensorPrimitives.ConvertTruncating<int, float>(MemoryMarshal.Cast<byte, int>(raw), destination); break;
+            case NcType.Byte: TensorPrimitives.ConvertChecked<sbyte, float>(MemoryMarshal.Cast<byte, sbyte>(raw), destination); break;
+            case NcType.Char:
+            case NcType.UByte: TensorPrimitives.ConvertChecked<byte, float>(raw, destination); break;
+            case NcType.UShort: TensorPrimitives.ConvertChecked<ushort, float>(MemoryMarshal.Cast<byte, ushort>(raw), destination); break;
+            case NcType.UInt: TensorPrimitives.ConvertTruncating<uint, float>(MemoryMarshal.Cast<byte, uint>(raw), destination); break;
+            case NcType.Int64: TensorPrimitives.ConvertTruncating<long, float>(MemoryMarshal.Cast<byte, long>(raw), destination); break;
+            case NcType.UInt64: TensorPrimitives.ConvertTruncating<ulong, float>(MemoryMarshal.Cast<byte, ulong>(raw), destination); break;
+            default: throw new ArgumentOutOfRangeException(nameof(type), type, "not a numeric type");
+        }
+    }
+
+    /// <summary>Swaps every element of <paramref name="data"/> between big- and little-endian, in place.</summary>
+    public static void SwapInPlace(Span<byte> data, int elementSize)
+    {
+        switch (elementSize)
+        {
+            case 1: return;
+            case 2: { var s = MemoryMarshal.Cast<byte, ushort>(data); BinaryPrimitives.ReverseEndianness(s, s); return; }
+            case 4: { var s = MemoryMarshal.Cast<byte, uint>(data); BinaryPrimitives.ReverseEndianness(s, s); return; }
+            case 8: { var s = MemoryMarshal.Cast<byte, ulong>(data); BinaryPrimitives.ReverseEndianness(s, s); return; }
+            default: throw new ArgumentOutOfRangeException(nameof(elementSize));
+        }
+    }
+}

@@ -1,0 +1,231 @@
+using System.Buffers;
+using GridDrift.Conventions.Coordinates;
+using GridDrift.Conventions.Time;
+using GridDrift.Conventions.Values;
+using GridDrift.Formats;
+
+namespace GridDrift.Frames;
+
+/// <summary>
+/// One variable of a record that may be split along time over several files, seen as one
+/// ordered sequence of 2-D (or n-D) frames. Files are sorted by their first time; a different
+/// grid, a missing variable, a calendar change, duplicated or overlapping times are refused
+/// naming both files; gaps are allowed and listed. Frames are decoded (CF masking and
+/// unpacking) into float32 buffers the caller owns; reads are safe from several threads.
+/// </summary>
+public sealed class FrameSource : IDisposable
+{
+    readonly Part[] _parts;
+    readonly int[] _partStart;
+
+    sealed record Part(IDatasetReader Reader, NcVariable Variable, ValueCodec Codec, TimeAxis Time, int TimeDimension);
+
+    public string VariableName { get; }
+    public IReadOnlyList<string> Files { get; }
+    public IReadOnlyList<CfTime> Times { get; }
+    public CfCalendar Calendar { get; }
+    /// <summary>The first file's time units: products keep them.</summary>
+    public TimeUnits TimeUnits { get; }
+    public TimeStep? Step { get; }
+    public IReadOnlyList<TimeGap> Gaps { get; }
+    /// <summary>Names and lengths of the dimensions of one frame (all but time), in file order.</summary>
+    public IReadOnlyList<NcDimension> FrameDimensions { get; }
+    public int FrameLength { get; }
+    public int FrameCount => Times.Count;
+    public IReadOnlyList<string> Warnings { get; }
+    /// <summary>The first file's reader and axes, for grid and metadata queries.</summary>
+    public IDatasetReader Template => _parts[0].Reader;
+    public VariableAxes Axes { get; }
+
+    FrameSource(string variable, Part[] parts, VariableAxes axes, List<string> warnings)
+    {
+        VariableName = variable;
+        _parts = parts;
+        Axes = axes;
+        Files = parts.Select(p => p.Reader.Path).ToList();
+        _partStart = new int[parts.Length + 1];
+        var times = new List<CfTime>();
+        for (int i = 0; i < parts.Length; i++)
+        {
+            _partStart[i] = times.Count;
+            times.AddRange(parts[i].Time.Times);
+        }
+        _partStart[^1] = times.Count;
+        Times = times;
+        Calendar = parts[0].Time.Calendar;
+        TimeUnits = parts[0].Time.Units;
+        var first = parts[0];
+        FrameDimensions = first.Variable.Dimensions.Where((_, d) => d != first.TimeDimension).ToList();
+        FrameLength = checked((int)FrameDimensions.Aggregate(1L, (n, d) => n * d.Length));
+        Step = TimeStep.Infer(times);
+        Gaps = TimeGap.Find(times, Step);
+        Warnings = warnings;
+    }
+
+    public static FrameSource Open(IReadOnlyList<string> paths, string variable)
+    {
+        if (paths.Count == 0) throw new BadInputException(null, variable, "no input files");
+        var parts = new List<Part>();
+        var warnings = new List<string>();
+        VariableAxes? axes = null;
+        try
+        {
+            foreach (var path in paths)
+            {
+                var reader = DatasetFiles.Open(path);
+                try
+                {
+                    var v = reader.FindVariable(variable) ?? throw new BadInputException(path, variable,
+                        paths.Count > 1 ? $"missing here but present in {parts.FirstOrDefault()?.Reader.Path ?? "the other files"}"
+                            : "no such variable (the file has: " + string.Join(", ", reader.Variables.Select(x => x.Name)) + ")");
+                    RawValues.RequireNumeric(path, v);
+                    var fileAxes = VariableAxes.Discover(reader, v);
+                    int timeDim = fileAxes.IndexOf(AxisRole.Time);
+                    if (timeDim < 0)
+                        throw new BadInputException(path, variable, "has no time dimension (no coordinate variable with time units along any of its dimensions)");
+                    var time = TimeAxis.Read(reader, fileAxes.DimensionCoordinates[timeDim]!);
+                    var codec = ValueCodec.For(v);
+                    foreach (var w in codec.Warnings) warnings.Add($"{path}: variable '{variable}': {w}");
+                    axes ??= fileAxes;
+                    parts.Add(new Part(reader, v, codec, time, timeDim));
+                }
+                catch
+                {
+                    reader.Dispose();
+                    throw;
+                }
+            }
+            var ordered = parts.OrderBy(p => p.Time.Times.Length == 0 ? long.MaxValue : p.Time.Times[0].Micros).ToArray();
+            CheckConsistent(ordered, variable);
+            return new FrameSource(variable, ordered, axes!, warnings);
+        }
+        catch
+        {
+            foreach (var p in parts) p.Reader.Dispose();
+            throw;
+        }
+    }
+
+    static void CheckConsistent(Part[] parts, string variable)
+    {
+        var first = parts[0];
+        foreach (var p in parts)
+        {
+            var times = p.Time.Times;
+            for (int i = 1; i < times.Length; i++)
+                if (times[i] <= times[i - 1])
+                    throw new BadInputException(p.Reader.Path, p.Time.VariableName,
+                        times[i] == times[i - 1] ? $"time {times[i].ToIsoString()} occurs twice (indices {i - 1} and {i})"
+                            : $"times are not increasing ({times[i - 1].ToIsoString()} at index {i - 1}, then {times[i].ToIsoString()})");
+        }
+        for (int k = 1; k < parts.Length; k++)
+        {
+            var p = parts[k];
+            if (p.Time.Calendar != first.Time.Calendar)
+                throw new BadInputException(p.Reader.Path, p.Time.VariableName,
+                    $"calendar {p.Time.Calendar.CfName()} differs from {first.Time.Calendar.CfName()} in {first.Reader.Path}");
+            if (!SameGrid(first, p, out var why))
+                throw new BadInputException(p.Reader.Path, variable, $"grid differs from {first.Reader.Path}: {why}");
+            var prev = parts[k - 1];
+            if (prev.Time.Times.Length > 0 && p.Time.Times.Length > 0 && p.Time.Times[0] <= prev.Time.Times[^1])
+                throw new BadInputException(p.Reader.Path, p.Time.VariableName,
+                    $"times {p.Time.Times[0].ToIsoString()} … overlap those of {prev.Reader.Path} (which ends {prev.Time.Times[^1].ToIsoString()})");
+        }
+    }
+
+    static bool SameGrid(Part a, Part b, out string why)
+    {
+        var da = a.Variable.Dimensions.Where((_, d) => d != a.TimeDimension).ToArray();
+        var db = b.Variable.Dimensions.Where((_, d) => d != b.TimeDimension).ToArray();
+        if (a.TimeDimension != b.TimeDimension || da.Length != db.Length)
+        {
+            why = "different dimensions";
+            return false;
+        }
+        for (int i = 0; i < da.Length; i++)
+        {
+            if (da[i].Name != db[i].Name || da[i].Length != db[i].Length)
+            {
+                why = $"dimension {da[i].Name} = {da[i].Length} there, {db[i].Name} = {db[i].Length} here";
+                return false;
+            }
+            var ca = a.Reader.Variables.FirstOrDefault(v => v.Rank == 1 && v.Name == da[i].Name);
+            var cb = b.Reader.Variables.FirstOrDefault(v => v.Rank == 1 && v.Name == db[i].Name);
+            if (ca is not null && cb is not null && NcTypes.IsNumeric(ca.Type) && NcTypes.IsNumeric(cb.Type))
+            {
+                var xa = a.Reader.ReadAllDoubles(ca);
+                var xb = b.Reader.ReadAllDoubles(cb);
+                for (int j = 0; j < xa.Length; j++)
+                    if (Math.Abs(xa[j] - xb[j]) > 1e-6 * Math.Max(1, Math.Abs(xa[j])))
+                    {
+                        why = $"coordinate {ca.Name}[{j}] is {xa[j]} there, {xb[j]} here";
+                        return false;
+                    }
+            }
+        }
+        why = "";
+        return true;
+    }
+
+    /// <summary>The file and the time index within it of global frame <paramref name="index"/>.</summary>
+    public (string File, int LocalIndex) Locate(int index)
+    {
+        int part = PartOf(index);
+        return (_parts[part].Reader.Path, index - _partStart[part]);
+    }
+
+    int PartOf(int index)
+    {
+        if ((uint)index >= (uint)FrameCount) throw new ArgumentOutOfRangeException(nameof(index));
+        int lo = 0, hi = _parts.Length - 1;
+        while (lo < hi)
+        {
+            int mid = (lo + hi + 1) / 2;
+            if (_partStart[mid] <= index) lo = mid; else hi = mid - 1;
+        }
+        return lo;
+    }
+
+    /// <summary>Reads and decodes frame <paramref name="index"/> (physical units, NaN where missing).</summary>
+    public void ReadFrame(int index, Span<float> destination)
+    {
+        if (destination.Length != FrameLength) throw new ArgumentException($"frame buffer needs {FrameLength} values");
+        int p = PartOf(index);
+        var part = _parts[p];
+        int rank = part.Variable.Rank;
+        Span<long> start = stackalloc long[rank];
+        Span<long> count = stackalloc long[rank];
+        for (int d = 0; d < rank; d++) count[d] = part.Variable.Dimensions[d].Length;
+        start[part.TimeDimension] = index - _partStart[p];
+        count[part.TimeDimension] = 1;
+
+        var type = part.Variable.Type;
+        if (type == NcType.Float && !part.Codec.IsPacked)
+        {
+            part.Reader.ReadRaw(part.Variable, start, count, System.Runtime.InteropServices.MemoryMarshal.AsBytes(destination));
+            part.Codec.DecodeInPlace(destination);
+            return;
+        }
+        int size = NcTypes.SizeOf(type);
+        byte[] raw = ArrayPool<byte>.Shared.Rent(destination.Length * size);
+        double[] wide = ArrayPool<double>.Shared.Rent(destination.Length);
+        try
+        {
+            var rawSpan = raw.AsSpan(0, destination.Length * size);
+            part.Reader.ReadRaw(part.Variable, start, count, rawSpan);
+            var wideSpan = wide.AsSpan(0, destination.Length);
+            RawValues.ToDouble(type, rawSpan, wideSpan);
+            part.Codec.Decode(wideSpan, destination);
+        }
+        finally
+        {
+            ArrayPool<byte>.Shared.Return(raw);
+            ArrayPool<double>.Shared.Return(wide);
+        }
+    }
+
+    public void Dispose()
+    {
+        foreach (var p in _parts) p.Reader.Dispose();
+    }
+}
