@@ -25,11 +25,11 @@ public static class DescribeCommand
             var descriptions = paths.Select(DescribeStep.DescribeFile).ToList();
             RecordDescription? record = paths.Count > 1 ? DescribeStep.DescribeRecord(paths, parse.GetValue(variable)) : null;
             if (parse.GetValue(json))
-                Console.Out.WriteLine(DescriptionJson.Render(descriptions, record));
+                parse.InvocationConfiguration.Output.WriteLine(DescriptionJson.Render(descriptions, record));
             else
             {
-                foreach (var d in descriptions) Console.Out.WriteLine(DescriptionText.Render(d, parse.GetValue(attributes)));
-                if (record is not null) Console.Out.WriteLine(DescriptionText.Render(record));
+                foreach (var d in descriptions) parse.InvocationConfiguration.Output.WriteLine(DescriptionText.Render(d, parse.GetValue(attributes)));
+                if (record is not null) parse.InvocationConfiguration.Output.WriteLine(DescriptionText.Render(record));
             }
             return ExitCodes.Success;
         });

@@ -1,3 +1,4 @@
+using System.Text;
 using System.Buffers.Binary;
 using System.Numerics.Tensors;
 using System.Runtime.InteropServices;
@@ -71,5 +72,36 @@ public static class RawValues
             case 8: { var s = MemoryMarshal.Cast<byte, ulong>(data); BinaryPrimitives.ReverseEndianness(s, s); return; }
             default: throw new ArgumentOutOfRangeException(nameof(elementSize));
         }
+    }
+
+    /// <summary>Big-endian bytes to a typed array (char: text).</summary>
+    public static object DecodeBigEndian(NcType type, ReadOnlySpan<byte> bigEndian)
+    {
+        var le = bigEndian.ToArray();
+        RawValues.SwapInPlace(le, NcTypes.SizeOf(type));
+        var span = le.AsSpan();
+        return type switch
+        {
+            NcType.Char => DecodeText(le),
+            NcType.Byte => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, sbyte>(span).ToArray(),
+            NcType.UByte => le,
+            NcType.Short => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, short>(span).ToArray(),
+            NcType.UShort => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, ushort>(span).ToArray(),
+            NcType.Int => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, int>(span).ToArray(),
+            NcType.UInt => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, uint>(span).ToArray(),
+            NcType.Float => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, float>(span).ToArray(),
+            NcType.Double => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, double>(span).ToArray(),
+            NcType.Int64 => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, long>(span).ToArray(),
+            NcType.UInt64 => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, ulong>(span).ToArray(),
+            _ => throw new ArgumentOutOfRangeException(nameof(type)),
+        };
+    }
+
+    /// <summary>Char attributes are text; a trailing NUL (which C writers often include) is dropped.</summary>
+    static string DecodeText(byte[] bytes)
+    {
+        int end = bytes.Length;
+        while (end > 0 && bytes[end - 1] == 0) end--;
+        return Encoding.UTF8.GetString(bytes, 0, end);
     }
 }

@@ -170,7 +170,7 @@ internal static class ClassicHeaderParser
             if (n > c.Remaining / size) throw c.Fault($"attribute '{name}' claims {n} values, more than the file holds");
             long bytes = n * size;
             var raw = c.Bytes(bytes);
-            list.Add(new NcAttribute(name, type, DecodeValues(type, raw, (int)n)));
+            list.Add(new NcAttribute(name, type, RawValues.DecodeBigEndian(type, raw)));
             c.SkipPadding(bytes);
         }
         return list;
@@ -184,33 +184,4 @@ internal static class ClassicHeaderParser
         return (NcType)code;
     }
 
-    internal static object DecodeValues(NcType type, ReadOnlySpan<byte> bigEndian, int n)
-    {
-        var le = bigEndian.ToArray();
-        RawValues.SwapInPlace(le, NcTypes.SizeOf(type));
-        var span = le.AsSpan();
-        return type switch
-        {
-            NcType.Char => DecodeText(le),
-            NcType.Byte => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, sbyte>(span).ToArray(),
-            NcType.UByte => le,
-            NcType.Short => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, short>(span).ToArray(),
-            NcType.UShort => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, ushort>(span).ToArray(),
-            NcType.Int => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, int>(span).ToArray(),
-            NcType.UInt => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, uint>(span).ToArray(),
-            NcType.Float => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, float>(span).ToArray(),
-            NcType.Double => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, double>(span).ToArray(),
-            NcType.Int64 => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, long>(span).ToArray(),
-            NcType.UInt64 => System.Runtime.InteropServices.MemoryMarshal.Cast<byte, ulong>(span).ToArray(),
-            _ => throw new ArgumentOutOfRangeException(nameof(type)),
-        };
-    }
-
-    /// <summary>Char attributes are text; a trailing NUL (which C writers often include) is dropped.</summary>
-    static string DecodeText(byte[] bytes)
-    {
-        int end = bytes.Length;
-        while (end > 0 && bytes[end - 1] == 0) end--;
-        return Encoding.UTF8.GetString(bytes, 0, end);
-    }
 }

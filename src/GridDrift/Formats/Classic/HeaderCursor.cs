@@ -82,7 +82,10 @@ internal sealed class HeaderCursor
         long length = Count(countWidth, $"{what} name length");
         if (length == 0) throw Fault($"{what} has an empty name at byte {_position}");
         if (length > Remaining) throw Fault($"{what} name length {length} exceeds the file");
-        var text = Encoding.UTF8.GetString(Bytes(length));
+        var bytes = Bytes(length);
+        int nul = bytes.IndexOf((byte)0);
+        // netCDF-C reads names as C strings: bytes after a NUL inside the counted length are padding.
+        var text = Encoding.UTF8.GetString(nul >= 0 ? bytes[..nul] : bytes);
         SkipPadding(length);
         return text;
     }

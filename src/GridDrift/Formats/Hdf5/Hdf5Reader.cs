@@ -23,6 +23,7 @@ public sealed class Hdf5Reader : IDatasetReader
     readonly NativeFile _file;
     readonly object _gate = new();
     readonly Dictionary<NcVariable, NativeDataset> _datasets = new(ReferenceEqualityComparer.Instance);
+    readonly HashSet<NcVariable> _bigEndian = new(ReferenceEqualityComparer.Instance);
 
     public string Path { get; }
     public string Format { get; }
@@ -74,11 +75,17 @@ public sealed class Hdf5Reader : IDatasetReader
     /// <summary>Builds dimensions and variables group by group; dimensions are visible in their group and below.</summary>
     sealed class ModelBuilder(Hdf5Reader owner, List<NcDimension> dims, List<NcVariable> vars)
     {
+        // Dimension scales by object address, so DIMENSION_LIST references resolve without a name lookup.
+        readonly Dictionary<ulong, NcDimension> _scales = new();
+        // Objects PureHDF could not open, by address: a reference to one still names a dimension.
+        readonly Dictionary<ulong, string> _unopened = new();
+        Dictionary<string, NcDimension> _scope = new();
+
         public void Group(NativeGroup group, string prefix)
         {
-            var children = group.Children().ToList();
-            var datasets = children.OfType<NativeDataset>().ToList();
-            var scope = new Dictionary<string, NcDimension>(parentScope);
+            var links = Hdf5Links.Children(group);
+            var datasets = links.Where(l => l.Object is NativeDataset).Select(l => (NativeDataset)l.Object!).ToList();
+            var scope = new Dictionary<string, NcDimension>(_scope);
             foreach (var ds in datasets.Where(IsDimensionScale).OrderBy(DimensionId))
             {
                 var space = ds.Space;
@@ -87,7 +94,11 @@ public sealed class Hdf5Reader : IDatasetReader
                 var dim = new NcDimension(prefix + ds.Name, length, unlimited);
                 dims.Add(dim);
                 scope[ds.Name] = dim;
+                _scales[Hdf5Links.AddressOf(ds)] = dim;
             }
+            foreach (var failed in links.Where(l => l.Error is not null))
+                _unopened[failed.Address] = failed.Name;
+
             var phony = new Dictionary<long, NcDimension>();
             foreach (var ds in datasets)
             {
@@ -96,25 +107,27 @@ public sealed class Hdf5Reader : IDatasetReader
                 owner._datasets[v] = ds;
                 vars.Add(v);
             }
-            var saved = parentScope;
-            parentScope = scope;
-            foreach (var sub in children.OfType<NativeGroup>())
-                Group(sub, prefix + sub.Name + "/");
-            parentScope = saved;
-        }
+            foreach (var failed in links.Where(l => l.Error is not null && !scope.ContainsKey(l.Name)))
+                if (!dims.Any(d => d.Name == prefix + failed.Name))
+                    vars.Add(new NcVariable(prefix + failed.Name, NcType.Unsupported, [], [], $"unreadable object ({failed.Error!.Message})"));
 
-        Dictionary<string, NcDimension> parentScope = new();
+            var saved = _scope;
+            _scope = scope;
+            foreach (var sub in links.Where(l => l.Object is NativeGroup))
+                Group((NativeGroup)sub.Object!, prefix + sub.Name + "/");
+            _scope = saved;
+        }
 
         NcVariable Variable(NativeDataset ds, string prefix, Dictionary<string, NcDimension> scope, Dictionary<long, NcDimension> phony)
         {
             var space = ds.Space;
             int rank = space.Type == H5DataspaceType.Scalar ? 0 : space.Rank;
             var shape = rank == 0 ? [] : space.Dimensions;
-            var names = DimensionNames(ds, rank);
+            var listed = DimensionList(ds, rank, prefix, shape);
             var vdims = new NcDimension[rank];
             for (int d = 0; d < rank; d++)
             {
-                if (names?[d] is { } n && scope.TryGetValue(n, out var dim) && (dim.Length == (long)shape[d] || dim.IsUnlimited))
+                if (listed?[d] is { } dim && (dim.Length == (long)shape[d] || dim.IsUnlimited))
                 {
                     vdims[d] = dim;
                     if (dim.IsUnlimited) dim.Length = Math.Max(dim.Length, (long)shape[d]);
@@ -134,25 +147,41 @@ public sealed class Hdf5Reader : IDatasetReader
                 }
             }
             var (type, kind) = Hdf5Types.Classify(ds.Type);
-            return new NcVariable(prefix + ds.Name, type, vdims, owner.ReadAttributes(ds, prefix + ds.Name), kind);
+            var variable = new NcVariable(prefix + ds.Name, type, vdims, owner.ReadAttributes(ds, prefix + ds.Name), kind);
+            if (NcTypes.IsNumeric(type) && NcTypes.SizeOf(type) > 1 && Hdf5ByteOrder.IsBigEndian(ds.Type) && Hdf5ByteOrder.RelabelLittleEndian(ds.Type))
+                owner._bigEndian.Add(variable);
+            return variable;
         }
 
-        /// <summary>Dimension names from DIMENSION_LIST object references (HDF5 Dimension Scale specification).</summary>
-        string?[]? DimensionNames(NativeDataset ds, int rank)
+        /// <summary>Dimensions from DIMENSION_LIST object references (HDF5 Dimension Scale specification).</summary>
+        NcDimension?[]? DimensionList(NativeDataset ds, int rank, string prefix, ulong[] shape)
         {
             if (rank == 0 || !ds.AttributeExists("DIMENSION_LIST")) return null;
+            NativeObjectReference1[][] refs;
             try
             {
-                var refs = ds.Attribute("DIMENSION_LIST").Read<NativeObjectReference1[][]>();
-                var names = new string?[rank];
-                for (int d = 0; d < rank && d < refs.Length; d++)
-                    if (refs[d].Length > 0) names[d] = owner._file.Get(refs[d][0]).Name;
-                return names;
+                refs = ds.Attribute("DIMENSION_LIST").Read<NativeObjectReference1[][]>();
             }
             catch (Exception e) when (e is not OutOfMemoryException)
             {
                 return null; // fall back to matching by scale or phony dimensions
             }
+            var result = new NcDimension?[rank];
+            for (int d = 0; d < rank && d < refs.Length; d++)
+            {
+                if (refs[d].Length == 0) continue;
+                ulong address = Hdf5Links.AddressOf(refs[d][0]);
+                if (_scales.TryGetValue(address, out var dim)) result[d] = dim;
+                else if (_unopened.TryGetValue(address, out var name))
+                {
+                    // The scale's own header could not be read: its length is this variable's extent.
+                    var made = new NcDimension(prefix + name, (long)shape[d], false);
+                    dims.Add(made);
+                    _scales[address] = made;
+                    result[d] = made;
+                }
+            }
+            return result;
         }
     }
 
@@ -207,6 +236,7 @@ public sealed class Hdf5Reader : IDatasetReader
                 if (shape.Length == 0)
                 {
                     ReadTyped(ds, variable.Type, destination, new AllSelection(), [1]);
+                    if (_bigEndian.Contains(variable)) RawValues.SwapInPlace(destination, size);
                     return;
                 }
                 var starts = new ulong[shape.Length];
@@ -214,6 +244,7 @@ public sealed class Hdf5Reader : IDatasetReader
                 for (int d = 0; d < shape.Length; d++) { starts[d] = (ulong)start[d]; blocks[d] = (ulong)count[d]; }
                 ReadTyped(ds, variable.Type, destination, new HyperslabSelection(shape.Length, starts, blocks), blocks);
             }
+            if (_bigEndian.Contains(variable)) RawValues.SwapInPlace(destination, size);
         }
         catch (Exception e) when (e is not (OutOfMemoryException or BadInputException or ArgumentException))
         {

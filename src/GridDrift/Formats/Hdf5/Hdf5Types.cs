@@ -28,7 +28,7 @@ internal static class Hdf5Types
         },
         // netCDF-4 stores NC_CHAR as a fixed-length string of one byte, NC_STRING as a variable-length string.
         H5DataTypeClass.String => t.Size == 1 ? (NcType.Char, null) : (NcType.String, null),
-        H5DataTypeClass.VariableLength when t.VariableLength.BaseType.Class == H5DataTypeClass.String => (NcType.String, null),
+        H5DataTypeClass.VariableLength when Hdf5Links.IsVariableLengthString(t) => (NcType.String, null),
         H5DataTypeClass.Compound => (NcType.Unsupported, "compound"),
         H5DataTypeClass.VariableLength => (NcType.Unsupported, "variable-length"),
         H5DataTypeClass.Opaque => (NcType.Unsupported, "opaque"),
@@ -39,6 +39,20 @@ internal static class Hdf5Types
     public static NcAttribute ReadAttribute(IH5Attribute a)
     {
         var (type, kind) = Classify(a.Type);
+        if (a.Space.Type == H5DataspaceType.Null)
+            return new NcAttribute(a.Name, type == NcType.String ? NcType.Char : type, type switch
+            {
+                NcType.Char or NcType.String => "",
+                NcType.Unsupported => kind ?? "unsupported",
+                _ => Array.CreateInstance(ElementType(type), 0),
+            });
+        if (NcTypes.IsNumeric(type) && Hdf5ByteOrder.IsBigEndian(a.Type) && Hdf5ByteOrder.AttributeBytes(a) is { } bigEndian)
+        {
+            int size = NcTypes.SizeOf(type);
+            long count = a.Space.Dimensions.Aggregate(1UL, (n, d) => n * d) is var c && a.Space.Type == H5DataspaceType.Scalar ? 1 : (long)c;
+            var raw = bigEndian.AsSpan(0, (int)Math.Min(bigEndian.Length, count * size)).ToArray();
+            return new NcAttribute(a.Name, type, RawValues.DecodeBigEndian(type, raw));
+        }
         object values = type switch
         {
             NcType.Byte => a.Read<sbyte[]>(),
@@ -57,6 +71,20 @@ internal static class Hdf5Types
         if (type == NcType.String && values is string) type = NcType.Char;
         return new NcAttribute(a.Name, type, values);
     }
+
+    static Type ElementType(NcType type) => type switch
+    {
+        NcType.Byte => typeof(sbyte),
+        NcType.UByte => typeof(byte),
+        NcType.Short => typeof(short),
+        NcType.UShort => typeof(ushort),
+        NcType.Int => typeof(int),
+        NcType.UInt => typeof(uint),
+        NcType.Int64 => typeof(long),
+        NcType.UInt64 => typeof(ulong),
+        NcType.Float => typeof(float),
+        _ => typeof(double),
+    };
 
     /// <summary>Fixed-length text is NC_CHAR (one string); variable-length strings are NC_STRING (an array).</summary>
     static object Text(IH5Attribute a)

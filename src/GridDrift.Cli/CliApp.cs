@@ -1,0 +1,39 @@
+using System.CommandLine;
+using GridDrift.Cli.Commands;
+
+namespace GridDrift.Cli;
+
+/// <summary>The whole command line: parse, run one command, map failures to exit codes and one line on stderr.</summary>
+public static class CliApp
+{
+    public const string Caution =
+        "GridDrift is an analysis tool, not a warning or forecasting service: for decisions on floods and droughts, consult the responsible meteorological service.";
+
+    public static RootCommand BuildRoot()
+    {
+        var root = new RootCommand(
+            "GridDrift finds whether and where the large-scale moisture pattern of gridded water-vapour records changed.\n" + Caution);
+        root.Subcommands.Add(DescribeCommand.Build());
+        return root;
+    }
+
+    public static int Run(string[] args, TextWriter output, TextWriter error)
+    {
+        var parse = BuildRoot().Parse(args);
+        try
+        {
+            return parse.Invoke(new InvocationConfiguration { EnableDefaultExceptionHandler = false, Output = output, Error = error });
+        }
+        catch (BadInputException e)
+        {
+            error.WriteLine($"griddrift: {e.Message}");
+            return ExitCodes.BadInput;
+        }
+        catch (Exception e) when (e is not OperationCanceledException)
+        {
+            error.WriteLine($"griddrift: internal fault ({e.GetType().Name}): {e.Message}. Please report it with the command that caused it.");
+            if (Environment.GetEnvironmentVariable("GRIDDRIFT_TRACE") == "1") error.WriteLine(e);
+            return ExitCodes.InternalFault;
+        }
+    }
+}

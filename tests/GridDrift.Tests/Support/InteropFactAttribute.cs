@@ -1,0 +1,45 @@
+namespace GridDrift.Tests.Support;
+
+/// <summary>Which outside reference a test needs.</summary>
+[Flags]
+public enum Needs
+{
+    None = 0,
+    Ncdump = 1,
+    Ncgen = 2,
+    PythonNetcdf = 4,
+    PythonScipy = 8,
+    SharedData = 16,
+}
+
+/// <summary>
+/// A fact that needs outside tools or ../shared: skipped, with the reason and the package to
+/// install, when they are absent, except under GRIDDRIFT_REQUIRE_INTEROP=1 (CI), where it runs.
+/// </summary>
+public sealed class InteropFactAttribute : FactAttribute
+{
+    public InteropFactAttribute(Needs needs)
+    {
+        if (Missing(needs) is { } reason && !ExternalTools.InteropRequired) Skip = reason;
+    }
+
+    internal static string? Missing(Needs needs)
+    {
+        var missing = new List<string>();
+        if (needs.HasFlag(Needs.Ncdump) && !ExternalTools.HasNcdump) missing.Add("ncdump (apt-get install netcdf-bin)");
+        if (needs.HasFlag(Needs.Ncgen) && !ExternalTools.HasNcgen) missing.Add("ncgen (apt-get install netcdf-bin)");
+        if (needs.HasFlag(Needs.PythonNetcdf) && !ExternalTools.HasPythonNetcdf) missing.Add("python netCDF4 (apt-get install python3-netcdf4 python3-numpy)");
+        if (needs.HasFlag(Needs.PythonScipy) && !ExternalTools.HasPythonScipy) missing.Add("scipy (apt-get install python3-scipy)");
+        if (needs.HasFlag(Needs.SharedData) && SharedData.Root is null) missing.Add("the ../shared folder beside the checkout");
+        return missing.Count == 0 ? null : "skipped: needs " + string.Join(", ", missing);
+    }
+}
+
+/// <summary>The theory form of <see cref="InteropFactAttribute"/>.</summary>
+public sealed class InteropTheoryAttribute : TheoryAttribute
+{
+    public InteropTheoryAttribute(Needs needs)
+    {
+        if (InteropFactAttribute.Missing(needs) is { } reason && !ExternalTools.InteropRequired) Skip = reason;
+    }
+}
