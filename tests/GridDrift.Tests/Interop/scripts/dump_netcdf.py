@@ -60,7 +60,8 @@ def walk(group, prefix, out, mode, limit):
             except Exception as e:  # unreadable attribute types
                 entry["attributes"][att] = f"unreadable: {e}"
         if entry["kind"] not in ("compound", "variable-length", "enum") and int(np.prod(var.shape, dtype=np.int64)) <= limit:
-            var.set_auto_maskandscale(mode == "decoded")
+            is_char = np.dtype(var.dtype).kind == "S" if var.dtype != str else False
+            var.set_auto_maskandscale(mode == "decoded" and not is_char)
             if entry["kind"] == "string":
                 entry["values"] = [str(x) for x in np.asarray(var[...]).ravel().tolist()]
             else:
