@@ -67,12 +67,12 @@ public readonly struct CfTime : IComparable<CfTime>, IEquatable<CfTime>
             throw new InvalidOperationException($"cannot compare a {Calendar.CfName()} time with a {other.Calendar.CfName()} time");
     }
 
-    /// <summary>ISO 8601 text in the calendar's own reckoning, e.g. 2001-02-30T00:00:00 in 360_day.</summary>
+    /// <summary>ISO 8601 text in the calendar's own reckoning to the whole second, e.g. 2001-02-30T00:00:00 in 360_day.</summary>
     public string ToIsoString()
     {
         var (y, m, d) = Date;
-        long secondsOfDay = (long)Math.Round(MicrosOfDay / (double)MicrosPerSecond);
-        if (secondsOfDay == 86_400) return AddMicros(MicrosPerDay - MicrosOfDay).ToIsoString();
+        // Fractions of a second are cut, not rounded, as strftime does: the text never names a later second.
+        long secondsOfDay = MicrosOfDay / MicrosPerSecond;
         string year = y is >= 0 and <= 9999 ? y.ToString("D4", CultureInfo.InvariantCulture) : y.ToString(CultureInfo.InvariantCulture);
         return string.Create(CultureInfo.InvariantCulture,
             $"{year}-{m:D2}-{d:D2}T{secondsOfDay / 3600:D2}:{secondsOfDay / 60 % 60:D2}:{secondsOfDay % 60:D2}");
