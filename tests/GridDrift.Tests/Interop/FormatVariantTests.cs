@@ -123,3 +123,34 @@ public class FormatVariantTests
         Assert.Equal(expected.Skip(9).Take(3), frame);
     }
 }
+
+/// <summary>Frames streamed through <see cref="GridDrift.Frames.FrameSource"/> equal python netCDF4's decoded time slices.</summary>
+public class FrameDecodingInteropTests
+{
+    [InteropTheory(Needs.Ncgen | Needs.PythonNetcdf)]
+    [InlineData("nc3")]
+    [InlineData("nc4")]
+    public void Decoded_frames_equal_python_netCDF4_time_slices(string kind)
+    {
+        using var dir = new TempFolder();
+        string path = ExternalTools.RunNcgen(Cdl.Common(cdf5Types: false, deflate: kind == "nc4"), kind, dir.File($"frames_{kind}.nc"));
+        var reference = ReferenceDump.Of(path, decoded: true);
+        foreach (var name in new[] { "tcwv", "tb" })
+        {
+            var expected = ReferenceDump.Numbers(reference.Variable(name).GetProperty("values"));
+            using var source = GridDrift.Frames.FrameSource.Open([path], name);
+            Assert.Equal(4, source.FrameCount);
+            var frame = new float[source.FrameLength];
+            for (int t = 0; t < source.FrameCount; t++)
+            {
+                source.ReadFrame(t, frame);
+                for (int i = 0; i < frame.Length; i++)
+                {
+                    double e = expected[t * frame.Length + i];
+                    if (double.IsNaN(e)) Assert.True(float.IsNaN(frame[i]), $"{name}[{t},{i}] should be missing");
+                    else Assert.Equal((float)e, frame[i]);
+                }
+            }
+        }
+    }
+}
