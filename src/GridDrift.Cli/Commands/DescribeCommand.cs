@@ -23,13 +23,15 @@ public static class DescribeCommand
         {
             var paths = InputPaths.Expand(parse.GetValue(files)!);
             var descriptions = paths.Select(DescribeStep.DescribeFile).ToList();
-            RecordDescription? record = paths.Count > 1 ? DescribeStep.DescribeRecord(paths, parse.GetValue(variable)) : null;
+            var (record, problem) = paths.Count > 1 ? DescribeStep.DescribeRecord(paths, parse.GetValue(variable)) : (null, null);
+            var output = parse.InvocationConfiguration.Output;
             if (parse.GetValue(json))
-                parse.InvocationConfiguration.Output.WriteLine(DescriptionJson.Render(descriptions, record));
+                output.WriteLine(DescriptionJson.Render(descriptions, record, problem));
             else
             {
-                foreach (var d in descriptions) parse.InvocationConfiguration.Output.WriteLine(DescriptionText.Render(d, parse.GetValue(attributes)));
-                if (record is not null) parse.InvocationConfiguration.Output.WriteLine(DescriptionText.Render(record));
+                foreach (var d in descriptions) output.WriteLine(DescriptionText.Render(d, parse.GetValue(attributes)));
+                if (record is not null) output.WriteLine(DescriptionText.Render(record));
+                if (problem is not null) output.WriteLine($"no single record: {problem}");
             }
             return ExitCodes.Success;
         });

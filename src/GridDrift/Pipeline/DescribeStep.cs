@@ -41,20 +41,45 @@ public static class DescribeStep
             variables, reader.Attributes.Select(Attribute).ToList(), time, GridOf(reader), warnings);
     }
 
-    /// <summary>The record formed by several files, for the first data variable they share along time.</summary>
-    public static RecordDescription? DescribeRecord(IReadOnlyList<string> paths, string? variable = null)
+    /// <summary>
+    /// The record formed by several files. With a variable named, files that do not form one
+    /// record are bad input; without one, the first gridded time-dependent variable that every
+    /// file has is tried, and a failure is reported as the reason they form no record.
+    /// </summary>
+    public static (RecordDescription? Record, string? Problem) DescribeRecord(IReadOnlyList<string> paths, string? variable = null)
     {
-        if (variable is null)
+        if (variable is not null)
         {
-            using var first = DatasetFiles.Open(paths[0]);
-            variable = first.Variables.FirstOrDefault(v => v.Rank >= 2 && NcTypes.IsNumeric(v.Type)
-                && VariableAxes.Discover(first, v).IndexOf(AxisRole.Time) >= 0)?.Name;
-            if (variable is null) return null;
+            using var named = FrameSource.Open(paths, variable);
+            return (Record(named), null);
         }
-        using var source = FrameSource.Open(paths, variable);
-        return new RecordDescription(variable, source.Files,
-            Describe(source.Axes.Time?.Name ?? "time", null, source.Times, source));
+        var candidates = CandidateVariables(paths[0]);
+        foreach (var path in paths.Skip(1))
+        {
+            using var r = DatasetFiles.Open(path);
+            candidates.RemoveAll(name => r.FindVariable(name) is null);
+        }
+        if (candidates.Count == 0) return (null, "the files share no gridded variable with a time axis");
+        try
+        {
+            using var source = FrameSource.Open(paths, candidates[0]);
+            return (Record(source), null);
+        }
+        catch (BadInputException e)
+        {
+            return (null, $"they do not form one record of '{candidates[0]}': {e.Message}");
+        }
     }
+
+    static List<string> CandidateVariables(string path)
+    {
+        using var first = DatasetFiles.Open(path);
+        return first.Variables.Where(v => v.Rank >= 2 && NcTypes.IsNumeric(v.Type)
+            && VariableAxes.Discover(first, v).IndexOf(AxisRole.Time) >= 0).Select(v => v.Name).ToList();
+    }
+
+    static RecordDescription Record(FrameSource source) =>
+        new(source.VariableName, source.Files, Describe(source.Axes.Time?.Name ?? "time", null, source.Times, source));
 
     static TimeDescription Describe(string name, TimeAxis? axis, IReadOnlyList<CfTime> times, FrameSource? source = null)
     {

@@ -13,12 +13,12 @@ public static class DescriptionJson
 {
     static readonly JsonWriterOptions Options = new() { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
 
-    public static string Render(IReadOnlyList<FileDescription> files, RecordDescription? record)
+    public static string Render(IReadOnlyList<FileDescription> files, RecordDescription? record, string? recordProblem = null)
     {
         using var stream = new MemoryStream();
         using (var w = new Utf8JsonWriter(stream, Options))
         {
-            if (files.Count == 1 && record is null) File(w, files[0]);
+            if (files.Count == 1 && record is null && recordProblem is null) File(w, files[0]);
             else
             {
                 w.WriteStartObject();
@@ -35,6 +35,8 @@ public static class DescriptionJson
                     Time(w, record.Time);
                     w.WriteEndObject();
                 }
+                else w.WriteNull("record");
+                if (recordProblem is not null) w.WriteString("record_problem", recordProblem);
                 w.WriteEndObject();
             }
         }
