@@ -1,1 +1,16 @@
-﻿Console.WriteLine("Hello, World!");
+using GridDrift.Benchmarks;
+
+// On-demand benchmarks: each compares GridDrift with a peer measured in the same run.
+//   read [--frames 400] [--dir DIR]    frame-by-frame reads, CDF-2 and deflate netCDF-4, vs python netCDF4
+return args.FirstOrDefault() switch
+{
+    "read" => ReadBenchmark.Run(args[1..]),
+    "read-one" => ReadBenchmark.ReadOne(args[1..]),
+    _ => Usage(),
+};
+
+static int Usage()
+{
+    Console.Error.WriteLine("usage: GridDrift.Benchmarks read [--frames N] [--dir DIR]");
+    return 1;
+}
