@@ -33,11 +33,24 @@ public class WriterInteropTests
         var vshort = w.AddVariable("code", NcType.Short, [lat, lon], [NcAttribute.Text("long_name", "never written: all fill")]);
         ClassicWriter.Definition? vus = unsignedTypes ? w.AddVariable("ucount", NcType.UShort, [lat]) : null;
         ClassicWriter.Definition? vi64 = unsignedTypes ? w.AddVariable("big", NcType.Int64, [lat]) : null;
+        var strlen = w.AddDimension("strlen", 5);
+        var vlabel = w.AddVariable("label", NcType.Char, [lat, strlen]);
+        var vint = w.AddVariable("station", NcType.Int, [lat]);
+        var vdouble = w.AddVariable("weight", NcType.Double, [lat]);
+        ClassicWriter.Definition? vub = unsignedTypes ? w.AddVariable("ub", NcType.UByte, [lat]) : null;
+        ClassicWriter.Definition? vui = unsignedTypes ? w.AddVariable("ui", NcType.UInt, [lat]) : null;
+        ClassicWriter.Definition? vu64 = unsignedTypes ? w.AddVariable("u64", NcType.UInt64, [lat]) : null;
         w.EndDefinitions();
         w.Write<float>(vlat, [-30f, 0f, 30f]);
         w.Write<float>(vlon, [0f, 90f, 180f, 270f]);
         if (vus is not null) w.Write<ushort>(vus, [1, 40000, 65534]);
         if (vi64 is not null) w.Write<long>(vi64, [-9000000000000000000, 0, 9000000000000000000]);
+        w.Write<byte>(vlabel, "southequatnorth"u8);
+        w.Write<int>(vint, [-2000000000, 0, 2000000000]);
+        w.Write<double>(vdouble, [0.25, 0.5, 0.25]);
+        if (vub is not null) w.Write<byte>(vub, [0, 128, 255]);
+        if (vui is not null) w.Write<uint>(vui, [7, 3000000000, 4294967290]);
+        if (vu64 is not null) w.Write<ulong>(vu64, [1, 10000000000000000000, 18000000000000000000]);
         for (int t = 0; t < records; t++)
         {
             w.WriteRecord<double>(vt, t, [t * 6.0]);
@@ -91,12 +104,18 @@ public class WriterInteropTests
         Assert.Equal(new double[] { 0, 6, 12, 18 }, ReferenceDump.Numbers(dump.Variable("time").GetProperty("values")));
         // record 2 of 'flag' was never written: it holds the variable's _FillValue (-1)
         Assert.Equal(new double[] { 0, 1, 0, 1, 2, -1, -1, -1, -1, 3, 4, -3 }, ReferenceDump.Numbers(dump.Variable("flag").GetProperty("values")));
+        Assert.Equal("southequatnorth".Select(c => (double)c), ReferenceDump.Numbers(dump.Variable("label").GetProperty("values")));
+        Assert.Equal(new double[] { -2000000000, 0, 2000000000 }, ReferenceDump.Numbers(dump.Variable("station").GetProperty("values")));
+        Assert.Equal(new double[] { 0.25, 0.5, 0.25 }, ReferenceDump.Numbers(dump.Variable("weight").GetProperty("values")));
         // 'code' was never written and declares no fill: NC_FILL_SHORT (-32767), as netcdf.h defines
         Assert.All(ReferenceDump.Numbers(dump.Variable("code").GetProperty("values")), v => Assert.Equal(-32767, v));
         if (variant == 5)
         {
             Assert.Equal(new double[] { 1, 40000, 65534 }, ReferenceDump.Numbers(dump.Variable("ucount").GetProperty("values")));
             Assert.Equal("int64", dump.Variable("big").GetProperty("kind").GetString());
+            Assert.Equal(new double[] { 0, 128, 255 }, ReferenceDump.Numbers(dump.Variable("ub").GetProperty("values")));
+            Assert.Equal(new double[] { 7, 3000000000, 4294967290 }, ReferenceDump.Numbers(dump.Variable("ui").GetProperty("values")));
+            Assert.Equal(new double[] { 1, 1e19, 1.8e19 }, ReferenceDump.Numbers(dump.Variable("u64").GetProperty("values")));
         }
     }
 
@@ -110,5 +129,24 @@ public class WriterInteropTests
         string plain = dir.File("plain.nc");
         WriteSample(plain, variant: null, unsignedTypes: false);
         Assert.Equal("64-bit offset", ExternalTools.Run("ncdump", $"-k {plain}").Stdout.Trim());
+    }
+
+    [Fact]
+    public void A_streaming_record_count_follows_from_the_file_size()
+    {
+        // NetCDF classic format specification: numrecs = STREAMING (all bits set) means the record
+        // count is not in the header and follows from the file size. (netCDF-C 4.9's ncdump prints
+        // 4294967295 records for such a file, so it is no witness here: the specification is.)
+        using var dir = new TempFolder();
+        string path = dir.File("streaming.nc");
+        WriteSample(path, ClassicVariant.Cdf2, unsignedTypes: false, records: 5);
+        var bytes = File.ReadAllBytes(path);
+        bytes[4] = bytes[5] = bytes[6] = bytes[7] = 0xFF;
+        File.WriteAllBytes(path, bytes);
+        using var reader = DatasetFiles.Open(path);
+        Assert.Equal(5, reader.Dimensions.Single(d => d.Name == "time").Length);
+        var frame = new double[12];
+        reader.ReadDoubles(reader.RequireVariable("tcwv"), [4, 0, 0], [1, 3, 4], frame);
+        Assert.Equal(Frame(4, 12).Select(f => (double)f), frame);
     }
 }
