@@ -9,20 +9,26 @@ public static class CliApp
     public const string Caution =
         "GridDrift is an analysis tool, not a warning or forecasting service: for decisions on floods and droughts, consult the responsible meteorological service.";
 
-    public static RootCommand BuildRoot()
+    public static RootCommand BuildRoot(string[]? args = null)
     {
         var root = new RootCommand(
             "GridDrift finds whether and where the large-scale moisture pattern of gridded water-vapour records changed.\n" + Caution);
         root.Subcommands.Add(DescribeCommand.Build());
+        root.Subcommands.Add(StatsCommand.Build(args ?? []));
         return root;
     }
 
     public static int Run(string[] args, TextWriter output, TextWriter error)
     {
-        var parse = BuildRoot().Parse(args);
+        var parse = BuildRoot(args).Parse(args);
         try
         {
             return parse.Invoke(new InvocationConfiguration { EnableDefaultExceptionHandler = false, Output = output, Error = error });
+        }
+        catch (AggregateException e) when (e.InnerExceptions.Count == 1 && e.InnerException is BadInputException bad)
+        {
+            error.WriteLine($"griddrift: {bad.Message}");
+            return ExitCodes.BadInput;
         }
         catch (BadInputException e)
         {

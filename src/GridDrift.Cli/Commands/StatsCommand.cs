@@ -1,0 +1,56 @@
+using System.CommandLine;
+using GridDrift.Frames;
+using GridDrift.Pipeline;
+using GridDrift.Statistics;
+
+namespace GridDrift.Cli.Commands;
+
+/// <summary>`griddrift stats`: area-weighted statistics per frame and region.</summary>
+public static class StatsCommand
+{
+    public static Command Build(string[] commandLine)
+    {
+        var files = CommonOptions.Files();
+        var variable = CommonOptions.Variable();
+        var regions = CommonOptions.Regions();
+        var stat = new Option<string>("--stat")
+        {
+            Description = "statistics, comma-separated: mean,std,min,max,p10,p50,p90,valid (default: all)",
+            DefaultValueFactory = _ => "mean,std,min,max,p10,p50,p90,valid",
+        };
+        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 };
+        var output = new Option<string>("--out") { Description = "series NetCDF to write (dimensions time, region)", Required = true };
+        var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
+        var radius = CommonOptions.EarthRadius();
+        var format = CommonOptions.Format();
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("stats", "Area-weighted mean, standard deviation, minimum, maximum, quantiles and valid fraction per frame and region.\n\n" +
+            "Example:\n  griddrift stats cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --out s.nc --table s.parquet")
+        {
+            files, variable, regions, stat, minValid, output, table, radius, format, quiet,
+        };
+        command.SetAction(parse =>
+        {
+            RegionStatistic[] statistics;
+            try
+            {
+                statistics = parse.GetValue(stat)!.Split(',', StringSplitOptions.RemoveEmptyEntries).Select(RegionStatistics.Parse).Distinct().ToArray();
+            }
+            catch (FormatException e)
+            {
+                throw new BadInputException(null, null, e.Message);
+            }
+            var options = new StatsOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!,
+                statistics, parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(minValid), parse.GetValue(radius),
+                CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("stats", commandLine));
+            var summary = StatsStep.Run(options);
+            if (!parse.GetValue(quiet))
+                parse.InvocationConfiguration.Error.WriteLine(
+                    $"griddrift stats: {summary.Frames} frames × {summary.Regions} regions written to {options.Output}" +
+                    (options.Table is null ? "" : $" and {options.Table}") +
+                    $"; {summary.BelowMinValid} region-frames below --min-valid {options.MinValid}, {summary.NoData} with no data (set to NaN)");
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}

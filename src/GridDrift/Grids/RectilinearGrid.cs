@@ -1,0 +1,76 @@
+namespace GridDrift.Grids;
+
+/// <summary>
+/// Regular and irregular (e.g. Gaussian) latitude-longitude grids from their 1-D coordinates.
+/// Cell edges come from bounds where the file has them, else from midpoints between centres,
+/// the outermost edges half a step beyond the outermost centres and latitudes clamped to ±90°
+/// (so a cell centred on a pole is a half cell). Areas are exact: R² Δλ (sin φ₂ − sin φ₁).
+/// </summary>
+public static class RectilinearGrid
+{
+    public static Grid Build(double[] lat, double[] lon, double[]? latBounds = null, double[]? lonBounds = null,
+        double radius = Sphere.MeanEarthRadius, bool columnsFirst = false)
+    {
+        if (lat.Length == 0 || lon.Length == 0) throw new ArgumentException("a grid needs at least one latitude and one longitude");
+        var latEdges = latBounds is not null ? EdgesFromBounds(latBounds, lat.Length) : EdgesFromCentres(lat);
+        for (int i = 0; i < latEdges.Length; i++) latEdges[i] = Math.Clamp(latEdges[i], -90, 90);
+        var lonEdges = lonBounds is not null ? EdgesFromBounds(lonBounds, lon.Length) : EdgesFromCentres(lon);
+        int ny = lat.Length, nx = lon.Length;
+        var area = new double[ny * nx];
+        var clat = new double[ny * nx];
+        var clon = new double[ny * nx];
+        for (int j = 0; j < ny; j++)
+        {
+            double band = Math.Abs(Math.Sin(latEdges[j + 1] * Math.PI / 180) - Math.Sin(latEdges[j] * Math.PI / 180));
+            for (int i = 0; i < nx; i++)
+            {
+                int cell = j * nx + i;
+                area[cell] = radius * radius * band * Math.Abs(lonEdges[i + 1] - lonEdges[i]) * Math.PI / 180;
+                clat[cell] = lat[j];
+                clon[cell] = lon[i];
+            }
+        }
+        var spacing = HorizontalGrid.FromAxes(lat, lon);
+        return new Grid
+        {
+            Kind = spacing.Kind,
+            Rows = ny,
+            Columns = nx,
+            EarthRadius = radius,
+            CenterLat = clat,
+            CenterLon = clon,
+            CellArea = area,
+            LatEdges = latEdges,
+            LonEdges = lonEdges,
+            ColumnsFirst = columnsFirst,
+        };
+    }
+
+    /// <summary>Edges halfway between centres; the ends half a step out.</summary>
+    public static double[] EdgesFromCentres(double[] c)
+    {
+        int n = c.Length;
+        var e = new double[n + 1];
+        if (n == 1)
+        {
+            e[0] = c[0] - 0.5;
+            e[1] = c[0] + 0.5;
+            return e;
+        }
+        for (int i = 1; i < n; i++) e[i] = 0.5 * (c[i - 1] + c[i]);
+        e[0] = c[0] - 0.5 * (c[1] - c[0]);
+        e[n] = c[n - 1] + 0.5 * (c[n - 1] - c[n - 2]);
+        return e;
+    }
+
+    /// <summary>Edges from CF bounds (n × 2, CF §7.1): contiguous cells share their edges.</summary>
+    static double[] EdgesFromBounds(double[] bounds, int n)
+    {
+        if (bounds.Length != 2 * n) throw new ArgumentException($"bounds have {bounds.Length} values for {n} cells");
+        var e = new double[n + 1];
+        bool ascending = n < 2 || bounds[2] >= bounds[0];
+        for (int i = 0; i < n; i++) e[i] = ascending ? Math.Min(bounds[2 * i], bounds[2 * i + 1]) : Math.Max(bounds[2 * i], bounds[2 * i + 1]);
+        e[n] = ascending ? Math.Max(bounds[2 * n - 2], bounds[2 * n - 1]) : Math.Min(bounds[2 * n - 2], bounds[2 * n - 1]);
+        return e;
+    }
+}
