@@ -9,7 +9,7 @@ public static class SampleFiles
     /// <summary>A (time, lat, lon) float record with a regular grid; values are a function of the indices.</summary>
     public static string Record(string path, ClassicVariant variant = ClassicVariant.Cdf2, int frames = 4, int nlat = 3, int nlon = 4,
         double firstHour = 0, double stepHours = 3, string calendar = "standard", string variable = "tcwv", IEnumerable<double>? hours = null,
-        float latOffset = 0)
+        float latOffset = 0, Func<int, int, bool>? missing = null)
     {
         using var w = ClassicWriter.Create(path, variant);
         var time = w.AddDimension("time", 0, unlimited: true);
@@ -28,7 +28,7 @@ public static class SampleFiles
         for (int t = 0; t < times.Length; t++)
         {
             w.WriteRecord<double>(vt, t, [times[t]]);
-            w.WriteRecord<float>(vd, t, Enumerable.Range(0, nlat * nlon).Select(i => (float)(times[t] + i * 0.25)).ToArray());
+            w.WriteRecord<float>(vd, t, Enumerable.Range(0, nlat * nlon).Select(i => missing?.Invoke(t, i) == true ? -999f : (float)(times[t] + i * 0.25)).ToArray());
         }
         w.Commit();
         return path;
