@@ -52,6 +52,7 @@ public static class StatsStep
             throw new BadInputException(null, null, e.Message);
         }
         var mask = RegionMaskBuilder.Build(grid, shapes);
+        var plan = SeparablePlan.TryBuild(grid, shapes);
         var statistics = o.Statistics.Where(s => s != RegionStatistic.Valid).ToArray();
         var units = source.Template.RequireVariable(o.Variable).Attributes.Text("units") ?? "1";
         var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea, statistics.Select(s => Quantity(s, o.Variable, units)).ToList(),
@@ -70,7 +71,7 @@ public static class StatsStep
         {
             sinks.Add(new SeriesNetCdfWriter(o.Output, layout, o.Format));
             if (o.Table is not null) sinks.Add(new SeriesParquetWriter(o.Table, layout));
-            var counts = Stream(source, mask, o.Statistics, statistics.Length, o.MinValid, sinks, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+            var counts = Stream(source, mask, plan, o.Statistics, statistics.Length, o.MinValid, sinks, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
             foreach (var s in sinks) s.Complete();
             return new StatsSummary(source.FrameCount, mask.Count, (long)source.FrameCount * mask.Count * statistics.Length, counts.Below, counts.NoData, grid, mask);
         }
@@ -80,12 +81,12 @@ public static class StatsStep
         }
     }
 
-    static (long Below, long NoData) Stream(FrameSource source, RegionMask mask, IReadOnlyList<RegionStatistic> requested, int quantities,
+    static (long Below, long NoData) Stream(FrameSource source, RegionMask mask, SeparablePlan? plan, IReadOnlyList<RegionStatistic> requested, int quantities,
         double minValid, List<ISeriesSink> sinks, int workers, IProgress<(int, int)>? progress)
     {
         var withValid = requested.Where(s => s != RegionStatistic.Valid).Append(RegionStatistic.Valid).ToArray();
         int stride = withValid.Length;
-        var reducers = Enumerable.Range(0, workers).Select(_ => new RegionReducer(mask, withValid)).ToArray();
+        var reducers = Enumerable.Range(0, workers).Select(_ => new RegionReducer(mask, withValid, plan)).ToArray();
         var frames = Enumerable.Range(0, workers).Select(_ => new float[source.FrameLength]).ToArray();
         var results = Enumerable.Range(0, workers).Select(_ => new double[mask.Count * stride]).ToArray();
         var values = new double[mask.Count * quantities];

@@ -20,9 +20,14 @@ public sealed class RegionReducer
     readonly float[] _values;
     readonly double[] _weights;
     readonly double[] _quantileResults;
+    readonly SeparableReducer? _separable;
+    readonly double[] _moments;
 
-    public RegionReducer(RegionMask mask, IReadOnlyList<RegionStatistic> statistics)
+    /// <param name="plan">the box fast path for moments and extremes, where the regions allow it</param>
+    public RegionReducer(RegionMask mask, IReadOnlyList<RegionStatistic> statistics, SeparablePlan? plan = null)
     {
+        _separable = plan is null ? null : new SeparableReducer(plan);
+        _moments = plan is null ? [] : new double[5 * mask.Count];
         _mask = mask;
         _statistics = statistics.ToArray();
         var quantiles = _statistics.Select((s, i) => (s.Quantile(), i)).Where(x => x.Item1 is not null).ToArray();
@@ -40,6 +45,11 @@ public sealed class RegionReducer
     /// <summary>Writes, for region r and statistic s, output[r × statistics + s].</summary>
     public void Reduce(ReadOnlySpan<float> frame, Span<double> output)
     {
+        if (_separable is not null)
+        {
+            ReduceSeparable(frame, output);
+            return;
+        }
         int ns = _statistics.Length;
         for (int r = 0; r < _mask.Count; r++)
         {
@@ -84,6 +94,43 @@ public sealed class RegionReducer
                     _ => double.NaN,
                 };
             }
+            for (int q = 0; q < _quantileSlots.Length; q++) slot[_quantileSlots[q]] = n > 0 ? _quantileResults[q] : double.NaN;
+        }
+    }
+
+    void ReduceSeparable(ReadOnlySpan<float> frame, Span<double> output)
+    {
+        _separable!.Reduce(frame, _moments);
+        int ns = _statistics.Length;
+        bool wantQuantiles = _probabilities.Length > 0;
+        for (int r = 0; r < _mask.Count; r++)
+        {
+            var m = _moments.AsSpan(5 * r, 5);
+            var slot = output.Slice(r * ns, ns);
+            for (int s = 0; s < ns; s++)
+            {
+                slot[s] = _statistics[s] switch
+                {
+                    RegionStatistic.Mean => m[1],
+                    RegionStatistic.Std => Math.Sqrt(m[2]),
+                    RegionStatistic.Min => m[3],
+                    RegionStatistic.Max => m[4],
+                    RegionStatistic.Valid => _mask.RegionArea[r] > 0 ? m[0] / _mask.RegionArea[r] : double.NaN,
+                    _ => double.NaN,
+                };
+            }
+            if (!wantQuantiles) continue;
+            var cells = _mask.CellsOf(r);
+            var areas = _mask.AreasOf(r);
+            int n = 0;
+            for (int k = 0; k < cells.Length; k++)
+            {
+                float x = frame[cells[k]];
+                if (float.IsNaN(x)) continue;
+                _values[n] = x;
+                _weights[n++] = areas[k];
+            }
+            WeightedQuantile.Evaluate(_values.AsSpan(0, n), _weights.AsSpan(0, n), _probabilities, _quantileResults);
             for (int q = 0; q < _quantileSlots.Length; q++) slot[_quantileSlots[q]] = n > 0 ? _quantileResults[q] : double.NaN;
         }
     }
