@@ -14,6 +14,7 @@ public static class CliApp
         var root = new RootCommand(
             "GridDrift finds whether and where the large-scale moisture pattern of gridded water-vapour records changed.\n" + Caution);
         root.Subcommands.Add(DescribeCommand.Build());
+        root.Subcommands.Add(RegionsCommand.Build(args ?? []));
         root.Subcommands.Add(StatsCommand.Build(args ?? []));
         return root;
     }

@@ -1,0 +1,35 @@
+using System.CommandLine;
+using GridDrift.Pipeline;
+
+namespace GridDrift.Cli.Commands;
+
+/// <summary>`griddrift regions --grid FILE --regions SPEC... --out mask.nc [--png map.png]`.</summary>
+public static class RegionsCommand
+{
+    public static Command Build(string[] commandLine)
+    {
+        var grid = new Option<string>("--grid") { Description = "a NetCDF file whose grid the regions are built on", Required = true };
+        var regions = CommonOptions.Regions();
+        var output = new Option<string>("--out") { Description = "mask NetCDF to write", Required = true };
+        var png = new Option<string?>("--png") { Description = "PNG map of the regions to draw" };
+        var variable = new Option<string?>("--var") { Description = "the variable whose grid to use (default: the first gridded one)" };
+        var radius = CommonOptions.EarthRadius();
+        var format = CommonOptions.Format();
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("regions", "Build region masks once for a grid (exact fractional cover of cut cells) and write them as a CF mask file, with a PNG map.\n\n" +
+            "Example:\n  griddrift regions --grid cf-samples/tcwv_synthetic_2031.nc --regions global bands:30 box:tropical_pacific=-15,15,150,-90 --out mask.nc --png mask.png")
+        {
+            grid, regions, output, png, variable, radius, format, quiet,
+        };
+        command.SetAction(parse =>
+        {
+            var options = new RegionsOptions(parse.GetValue(grid)!, parse.GetValue(regions)!, parse.GetValue(output)!, parse.GetValue(png),
+                parse.GetValue(variable), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("regions", commandLine));
+            var (g, mask) = RegionsStep.Run(options);
+            if (!parse.GetValue(quiet))
+                parse.InvocationConfiguration.Error.WriteLine($"griddrift regions: {mask.Count} regions on a {g.Rows} × {g.Columns} {g.Kind} grid, {mask.EntryCount} cell entries, written to {options.Output}");
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}
