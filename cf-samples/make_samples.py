@@ -99,4 +99,105 @@ with netCDF4.Dataset(os.path.join(out, "q_levels_noleap_2031.nc"), "w", format="
         t[d] = d
         field = (0.018 * np.cos(phi) ** 3 * scale_height + rng.normal(0, 2e-4, (4, 18, 36))).clip(1e-6, 0.03)
         q[d] = field
+# 3. Brightness temperature on a Gaussian grid (uneven latitudes), 6-hourly, CDF-5.
+glat = np.rad2deg(np.arcsin(np.polynomial.legendre.leggauss(32)[0]))[::-1]  # N16: 32 Gaussian latitudes, north to south
+with netCDF4.Dataset(os.path.join(out, "tb_gaussian_2031.nc"), "w", format="NETCDF3_64BIT_DATA") as ds:
+    provenance(ds, "Synthetic 6.2 um water-vapour-channel brightness temperature on a Gaussian N16 grid (invented)")
+    ds.createDimension("time", None)
+    ds.createDimension("lat", glat.size)
+    ds.createDimension("lon", 64)
+    t = ds.createVariable("time", "f8", ("time",))
+    t.standard_name = "time"
+    t.units = "hours since 2031-07-01 00:00:00"
+    t.calendar = "proleptic_gregorian"
+    lat = ds.createVariable("lat", "f8", ("lat",))
+    lat.standard_name = "latitude"
+    lat.units = "degrees_north"
+    lat[:] = glat
+    lon = ds.createVariable("lon", "f8", ("lon",))
+    lon.standard_name = "longitude"
+    lon.units = "degrees_east"
+    lon[:] = np.arange(64) * 5.625
+    tb = ds.createVariable("tb", "f4", ("time", "lat", "lon"), fill_value=np.float32(-999.0))
+    tb.standard_name = "toa_brightness_temperature"
+    tb.long_name = "water-vapour-channel brightness temperature (synthetic)"
+    tb.units = "K"
+    phi = np.deg2rad(glat)[:, None]
+    lam = np.deg2rad(lon[:])[None, :]
+    for i in range(8):
+        t[i] = 6 * i
+        tb[i] = (228 + 14 * np.sin(phi) ** 2 + 4 * np.sin(2 * lam - i / 3) * np.cos(phi) + rng.normal(0, 0.7, (32, 64))).astype("f4")
+
+# 4. Specific humidity on a curvilinear (rotated) grid, daily, 360_day model calendar.
+ny, nx = 30, 40
+yy, xx = np.meshgrid(np.linspace(-15, 15, ny), np.linspace(-20, 20, nx), indexing="ij")
+pole_lat, pole_lon = np.deg2rad(39.25), np.deg2rad(-162.0)  # a rotated pole putting the domain over Europe
+ry, rx = np.deg2rad(yy), np.deg2rad(xx)
+glat2 = np.arcsin(np.sin(ry) * np.sin(pole_lat) + np.cos(ry) * np.cos(rx) * np.cos(pole_lat))
+glon2 = pole_lon + np.pi - np.arctan2(np.cos(ry) * np.sin(rx),
+                                      np.sin(ry) * np.cos(pole_lat) - np.cos(ry) * np.cos(rx) * np.sin(pole_lat))
+glat2, glon2 = np.rad2deg(glat2), (np.rad2deg(glon2) + 180) % 360 - 180
+with netCDF4.Dataset(os.path.join(out, "q_curvilinear_360day.nc"), "w", format="NETCDF4_CLASSIC") as ds:
+    provenance(ds, "Synthetic regional-model specific humidity on a rotated-pole grid, 360_day calendar (invented)")
+    ds.createDimension("time", None)
+    ds.createDimension("rlat", ny)
+    ds.createDimension("rlon", nx)
+    t = ds.createVariable("time", "f8", ("time",))
+    t.standard_name = "time"
+    t.units = "days since 2031-02-27"
+    t.calendar = "360_day"
+    la = ds.createVariable("lat", "f4", ("rlat", "rlon"))
+    la.standard_name = "latitude"
+    la.units = "degrees_north"
+    la[:] = glat2
+    lo = ds.createVariable("lon", "f4", ("rlat", "rlon"))
+    lo.standard_name = "longitude"
+    lo.units = "degrees_east"
+    lo[:] = glon2
+    q = ds.createVariable("huss", "f4", ("time", "rlat", "rlon"), fill_value=np.float32(1e20))
+    q.standard_name = "specific_humidity"
+    q.units = "1"
+    q.coordinates = "lat lon"
+    for d in range(5):  # 27, 28, 29, 30 February, then 1 March: 360_day months have 30 days
+        t[d] = d
+        q[d] = (0.004 + 0.006 * np.cos(np.deg2rad(glat2)) ** 2 + rng.normal(0, 2e-4, (ny, nx))).astype("f4")
+
+# 5. Brightness temperature in geostationary scan angles (CF grid_mapping geostationary), netCDF-4.
+n = 64
+scan = (np.arange(n) - (n - 1) / 2) * (2 * 0.1535 / n)  # just beyond the Earth's disk (+-0.151 rad)
+with netCDF4.Dataset(os.path.join(out, "tb_geostationary_2031.nc"), "w", format="NETCDF4") as ds:
+    provenance(ds, "Synthetic geostationary water-vapour-channel brightness temperature, full disk at 0 deg E (invented)")
+    ds.createDimension("time", None)
+    ds.createDimension("y", n)
+    ds.createDimension("x", n)
+    t = ds.createVariable("time", "f8", ("time",))
+    t.standard_name = "time"
+    t.units = "minutes since 2031-01-01 00:00:00"
+    x = ds.createVariable("x", "f8", ("x",))
+    x.standard_name = "projection_x_angular_coordinate"
+    x.units = "rad"
+    x.axis = "X"
+    x[:] = scan
+    y = ds.createVariable("y", "f8", ("y",))
+    y.standard_name = "projection_y_angular_coordinate"
+    y.units = "rad"
+    y.axis = "Y"
+    y[:] = scan[::-1]  # north at the top
+    gm = ds.createVariable("geostationary", "i4")
+    gm.grid_mapping_name = "geostationary"
+    gm.perspective_point_height = 35785831.0
+    gm.semi_major_axis = 6378137.0
+    gm.semi_minor_axis = 6356752.31414
+    gm.longitude_of_projection_origin = 0.0
+    gm.sweep_angle_axis = "y"
+    tb = ds.createVariable("tb", "f4", ("time", "y", "x"), fill_value=np.float32(-999.0), zlib=True)
+    tb.standard_name = "toa_brightness_temperature"
+    tb.units = "K"
+    tb.grid_mapping = "geostationary"
+    X, Y = np.meshgrid(scan, scan[::-1])
+    on_disk = (X / 0.1512) ** 2 + (Y / 0.1507) ** 2 < 1
+    for i in range(6):
+        t[i] = 15 * i
+        f = (235 + 10 * np.cos(8 * Y) + 3 * np.sin(10 * X - i / 2) + rng.normal(0, 0.5, (n, n))).astype("f4")
+        tb[i] = np.ma.masked_where(~on_disk, f)
 print("wrote", sorted(f for f in os.listdir(out) if f.endswith(".nc")))

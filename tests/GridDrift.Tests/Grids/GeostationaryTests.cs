@@ -70,4 +70,21 @@ public class GeostationaryTests
         Assert.True(grid.CellArea[10 * 21 + 10] > 0);         // the centre: Earth
         Assert.Equal(GridKind.Geostationary, grid.Kind);
     }
+
+    [Fact]
+    public void The_cells_on_the_disk_approach_the_visible_cap_as_pixels_shrink()
+    {
+        // A sphere seen from distance H from its centre shows a cap of area 2πR²(1 − R/H). Cells
+        // wholly on the disk cover less, the loss a ring of ever thinner limb pixels.
+        var sphere = new GeostationaryProjection(H - Req, Req, Req, 0, "y");
+        double cap = 2 * Math.PI * Req * Req * (1 - Req / H);
+        double Covered(int n)
+        {
+            var scan = Enumerable.Range(0, n).Select(i => (i - (n - 1) / 2.0) * (2 * 0.1535 / n)).ToArray();
+            return sphere.BuildGrid(scan, scan, Req).TotalArea / cap;
+        }
+        double coarse = Covered(128), fine = Covered(1024);
+        Assert.True(coarse < fine && fine < 1, $"coverage {coarse} then {fine}");
+        Assert.InRange(fine, 0.93, 1.0);
+    }
 }
