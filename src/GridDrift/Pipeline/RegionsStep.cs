@@ -26,15 +26,7 @@ public static class RegionsStep
                   ?? throw new BadInputException(o.GridFile, null, "no gridded variable to take the grid from (name one with --var)");
             grid = GridReader.Read(reader, VariableAxes.Discover(reader, variable), o.EarthRadius);
         }
-        IReadOnlyList<RegionShape> shapes;
-        try
-        {
-            shapes = RegionSpecs.Parse(o.Regions);
-        }
-        catch (FormatException e)
-        {
-            throw new BadInputException(null, null, e.Message);
-        }
+        var shapes = RegionSpecs.ParseInput(o.Regions);
         var mask = RegionMaskBuilder.Build(grid, shapes);
         MaskNetCdfWriter.Write(o.Output, grid, mask, o.Regions, Provenance.For(o.Command, [o.GridFile]), o.Format);
         if (o.Png is not null)

@@ -42,15 +42,7 @@ public static class StatsStep
             throw new BadInputException(source.Files[0], o.Variable,
                 $"frames have {source.FrameLength} values but the grid has {grid.CellCount} cells: dimensions other than time, latitude and longitude " +
                 $"({string.Join(", ", source.FrameDimensions.Select(d => $"{d.Name} = {d.Length}"))}) are not supported by stats yet");
-        IReadOnlyList<RegionShape> shapes;
-        try
-        {
-            shapes = RegionSpecs.Parse(o.Regions);
-        }
-        catch (FormatException e)
-        {
-            throw new BadInputException(null, null, e.Message);
-        }
+        var shapes = RegionSpecs.ParseInput(o.Regions);
         var mask = RegionMaskBuilder.Build(grid, shapes);
         var plan = SeparablePlan.TryBuild(grid, shapes);
         var statistics = o.Statistics.Where(s => s != RegionStatistic.Valid).ToArray();

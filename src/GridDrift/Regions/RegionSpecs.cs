@@ -10,6 +10,19 @@ namespace GridDrift.Regions;
 /// </summary>
 public static class RegionSpecs
 {
+    /// <summary>Parses user input: a malformed specification is bad input (exit code 2), not a crash.</summary>
+    public static IReadOnlyList<RegionShape> ParseInput(IEnumerable<string> specs)
+    {
+        try
+        {
+            return Parse(specs);
+        }
+        catch (FormatException e)
+        {
+            throw new BadInputException(null, null, e.Message);
+        }
+    }
+
     public static IReadOnlyList<RegionShape> Parse(IEnumerable<string> specs)
     {
         var shapes = new List<RegionShape>();

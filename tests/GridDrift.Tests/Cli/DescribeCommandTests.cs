@@ -16,17 +16,9 @@ public class DescribeCommandTests
         return JsonDocument.Parse(o.Stdout).RootElement;
     }
 
-    static string[] Cftime(string calendar, string units, params double[] values)
-    {
-        string script = Path.Combine(AppContext.BaseDirectory, "scripts", "decode_times.py");
-        var info = new System.Diagnostics.ProcessStartInfo(ExternalTools.Python, $"\"{script}\"") { RedirectStandardInput = true, RedirectStandardOutput = true };
-        using var p = System.Diagnostics.Process.Start(info)!;
-        p.StandardInput.WriteLine($"{calendar}|{units}|{string.Join(",", values.Select(v => v.ToString(System.Globalization.CultureInfo.InvariantCulture)))}");
-        p.StandardInput.Close();
-        var line = p.StandardOutput.ReadToEnd().Trim();
-        p.WaitForExit();
-        return line.Split(',');
-    }
+    static string[] Cftime(string calendar, string units, params double[] values) =>
+        ExternalTools.RunPythonWithInput("decode_times.py",
+            $"{calendar}|{units}|{string.Join(",", values.Select(v => v.ToString(System.Globalization.CultureInfo.InvariantCulture)))}\n").Trim().Split(',');
 
     [InteropFact(Needs.Ncgen | Needs.PythonNetcdf)]
     public void Json_lists_format_dimensions_variables_and_time_as_the_reference_tools_do()

@@ -10,12 +10,7 @@ namespace GridDrift.Tests.Cli;
 /// </summary>
 public class StatsCommandTests
 {
-    static string Sample(string name)
-    {
-        for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
-            if (File.Exists(Path.Combine(dir.FullName, "GridDrift.sln"))) return Path.Combine(dir.FullName, "cf-samples", name);
-        throw new InvalidOperationException("cf-samples not found");
-    }
+    static string Sample(string name) => SharedData.Sample(name);
 
     [Theory]
     [InlineData("tcwv_synthetic_2031.nc", "tcwv", GridKind.RegularLatLon, 48)]

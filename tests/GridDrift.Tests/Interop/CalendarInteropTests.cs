@@ -28,14 +28,7 @@ public class CalendarInteropTests
     public void Decoded_dates_equal_cftime_in_every_calendar()
     {
         string input = string.Join("\n", Cases.Select(c => $"{c.Calendar}|{c.Units}|{string.Join(",", c.Values.Select(v => v.ToString("R", CultureInfo.InvariantCulture)))}"));
-        string path = Path.Combine(AppContext.BaseDirectory, "scripts", "decode_times.py");
-        var info = new System.Diagnostics.ProcessStartInfo(ExternalTools.Python, $"\"{path}\"") { RedirectStandardInput = true, RedirectStandardOutput = true, RedirectStandardError = true };
-        using var p = System.Diagnostics.Process.Start(info)!;
-        p.StandardInput.Write(input);
-        p.StandardInput.Close();
-        var lines = p.StandardOutput.ReadToEnd().Split('\n', StringSplitOptions.RemoveEmptyEntries);
-        p.WaitForExit();
-        Assert.True(p.ExitCode == 0, p.StandardError.ReadToEnd());
+        var lines = ExternalTools.RunPythonWithInput("decode_times.py", input).Split('\n', StringSplitOptions.RemoveEmptyEntries);
         for (int i = 0; i < Cases.Length; i++)
         {
             var (calendar, units, values) = Cases[i];

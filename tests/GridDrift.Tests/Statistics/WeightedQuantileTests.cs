@@ -19,13 +19,8 @@ public class WeightedQuantileTests
     {
         var rng = new Random(n);
         var values = Enumerable.Range(0, n).Select(_ => (float)Math.Round(200 + 60 * rng.NextDouble() * rng.NextDouble(), 2)).ToArray();
-        string script = Path.Combine(AppContext.BaseDirectory, "scripts", "hazen_percentiles.py");
-        var info = new System.Diagnostics.ProcessStartInfo(ExternalTools.Python, $"\"{script}\"") { RedirectStandardInput = true, RedirectStandardOutput = true };
-        using var p = System.Diagnostics.Process.Start(info)!;
-        p.StandardInput.Write(string.Join(" ", values.Select(v => ((double)v).ToString("R", CultureInfo.InvariantCulture))));
-        p.StandardInput.Close();
-        var expected = p.StandardOutput.ReadToEnd().Split(' ', StringSplitOptions.RemoveEmptyEntries).Select(t => double.Parse(t, CultureInfo.InvariantCulture)).ToArray();
-        p.WaitForExit();
+        var expected = ExternalTools.RunPythonWithInput("hazen_percentiles.py", string.Join(" ", values.Select(v => ((double)v).ToString("R", CultureInfo.InvariantCulture))))
+            .Split(' ', StringSplitOptions.RemoveEmptyEntries).Select(t => double.Parse(t, CultureInfo.InvariantCulture)).ToArray();
 
         var results = new double[3];
         WeightedQuantile.Evaluate(values, Enumerable.Repeat(1.0, n).ToArray(), [0.1, 0.5, 0.9], results);

@@ -71,6 +71,22 @@ public static class ExternalTools
         return r.Stdout;
     }
 
+    /// <summary>Runs a script from Interop/scripts with the given text on its standard input.</summary>
+    public static string RunPythonWithInput(string script, string input)
+    {
+        string path = Path.Combine(AppContext.BaseDirectory, "scripts", script);
+        var info = new ProcessStartInfo(Python, $"\"{path}\"") { RedirectStandardInput = true, RedirectStandardOutput = true, RedirectStandardError = true };
+        info.Environment.Remove("PYTHONPATH");
+        using var p = Process.Start(info)!;
+        var stdout = p.StandardOutput.ReadToEndAsync();
+        var stderr = p.StandardError.ReadToEndAsync();
+        p.StandardInput.Write(input);
+        p.StandardInput.Close();
+        p.WaitForExit();
+        if (p.ExitCode != 0) throw new InvalidOperationException($"{script} failed ({p.ExitCode}): {stderr.Result}");
+        return stdout.Result;
+    }
+
     public static string RunNcgen(string cdl, string kind, string outputPath)
     {
         string cdlPath = outputPath + ".cdl";

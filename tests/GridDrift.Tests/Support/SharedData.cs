@@ -6,16 +6,23 @@ namespace GridDrift.Tests.Support;
 /// </summary>
 public static class SharedData
 {
+    /// <summary>The checkout: the folder holding GridDrift.sln above the test binaries.</summary>
+    public static readonly string Repository = FindRepository();
+
+    static string FindRepository()
+    {
+        for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
+            if (File.Exists(Path.Combine(dir.FullName, "GridDrift.sln"))) return dir.FullName;
+        throw new InvalidOperationException("GridDrift.sln not found above " + AppContext.BaseDirectory);
+    }
+
+    public static string Sample(string name) => Path.Combine(Repository, "cf-samples", name);
+
     static readonly Lazy<string?> RootLazy = new(() =>
     {
         if (Environment.GetEnvironmentVariable("GRIDDRIFT_SHARED") is { Length: > 0 } env && Directory.Exists(env)) return env;
-        for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
-            if (File.Exists(Path.Combine(dir.FullName, "GridDrift.sln")))
-            {
-                var shared = Path.Combine(dir.Parent?.FullName ?? "", "shared");
-                return Directory.Exists(shared) ? shared : null;
-            }
-        return null;
+        var shared = Path.Combine(Path.GetDirectoryName(Repository) ?? "", "shared");
+        return Directory.Exists(shared) ? shared : null;
     });
 
     public static string? Root => RootLazy.Value;
