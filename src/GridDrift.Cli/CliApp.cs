@@ -16,6 +16,7 @@ public static class CliApp
         root.Subcommands.Add(DescribeCommand.Build());
         root.Subcommands.Add(RegionsCommand.Build(args ?? []));
         root.Subcommands.Add(StatsCommand.Build(args ?? []));
+        root.Subcommands.Add(SimilarityCommand.Build(args ?? []));
         return root;
     }
 

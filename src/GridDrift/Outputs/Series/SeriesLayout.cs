@@ -17,14 +17,16 @@ public sealed record SeriesLayout(
     TimeUnits TimeUnits,
     string CalendarAttribute,
     Provenance Provenance,
-    IReadOnlyDictionary<string, string> Attributes);
+    IReadOnlyDictionary<string, string> Attributes,
+    bool HasTimeBounds = false);
 
 /// <summary>Where series time steps go as they are computed, in time order.</summary>
 public interface ISeriesSink : IDisposable
 {
     /// <param name="values">quantity-major per region: values[region × quantities + quantity]</param>
     /// <param name="validFraction">per region</param>
-    void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction);
+    /// <param name="earlier">for pair metrics: the earlier frame's time (the step is stamped with the later one)</param>
+    void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction, CfTime? earlier = null);
 
     /// <summary>Finishes the product and moves it to its final name.</summary>
     void Complete();

@@ -17,6 +17,7 @@ public sealed class SeriesNetCdfWriter : ISeriesSink
     readonly ClassicWriter.Definition _time;
     readonly ClassicWriter.Definition[] _quantities;
     readonly ClassicWriter.Definition _valid;
+    readonly ClassicWriter.Definition? _bounds;
     readonly SeriesLayout _layout;
     readonly double[] _row;
     long _record;
@@ -32,11 +33,19 @@ public sealed class SeriesNetCdfWriter : ISeriesSink
         var nameLength = w.AddDimension("name_strlen", strlen);
         foreach (var (k, v) in layout.Provenance.AsKeyValues(layout.Attributes)) w.AddAttribute(NcAttribute.Text(k, v));
 
-        _time = w.AddVariable("time", NcType.Double, [time],
-        [
+        var timeAttributes = new List<NcAttribute>
+        {
             NcAttribute.Text("standard_name", "time"), NcAttribute.Text("long_name", "time"),
             NcAttribute.Text("units", layout.TimeUnits.Text), NcAttribute.Text("calendar", layout.CalendarAttribute), NcAttribute.Text("axis", "T"),
-        ]);
+        };
+        if (layout.HasTimeBounds) timeAttributes.Add(NcAttribute.Text("bounds", "time_bnds"));
+        _time = w.AddVariable("time", NcType.Double, [time], timeAttributes);
+        if (layout.HasTimeBounds)
+        {
+            var nv = w.AddDimension("nv", 2);
+            // CF §7.1: bounds carry no units or calendar of their own; they are the time coordinate's.
+            _bounds = w.AddVariable("time_bnds", NcType.Double, [time, nv], [NcAttribute.Text("long_name", "times of the earlier and the later frame of the pair")]);
+        }
         var names = w.AddVariable("region_name", NcType.Char, [region, nameLength], [NcAttribute.Text("long_name", "region name")]);
         var areas = w.AddVariable("region_area", NcType.Double, [region],
             [NcAttribute.Text("long_name", "area of the region on the sphere"), NcAttribute.Text("units", "m2"), NcAttribute.Text("coordinates", "region_name")]);
@@ -60,10 +69,12 @@ public sealed class SeriesNetCdfWriter : ISeriesSink
         _row = new double[layout.Regions.Count];
     }
 
-    public void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction)
+    public void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction, CfTime? earlier = null)
     {
         int nq = _layout.Quantities.Count, nr = _layout.Regions.Count;
         _writer.WriteRecord<double>(_time, _record, [_layout.TimeUnits.Encode(time)]);
+        if (_bounds is not null)
+            _writer.WriteRecord<double>(_bounds, _record, [_layout.TimeUnits.Encode(earlier ?? time), _layout.TimeUnits.Encode(time)]);
         for (int q = 0; q < nq; q++)
         {
             for (int r = 0; r < nr; r++) _row[r] = values[r * nq + q];

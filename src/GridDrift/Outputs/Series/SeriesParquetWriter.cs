@@ -51,7 +51,7 @@ public sealed class SeriesParquetWriter : ISeriesSink
         _writer.CustomMetadata = new Dictionary<string, string>(layout.Provenance.AsKeyValues(layout.Attributes));
     }
 
-    public void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction)
+    public void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction, CfTime? earlier = null)
     {
         string iso = time.ToIsoString();
         DateTime? utc = time.ToUtc();

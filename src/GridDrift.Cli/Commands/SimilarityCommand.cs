@@ -1,0 +1,66 @@
+using System.CommandLine;
+using GridDrift.Frames;
+using GridDrift.Pipeline;
+using GridDrift.Similarity;
+
+namespace GridDrift.Cli.Commands;
+
+/// <summary>`griddrift similarity`: how much the pattern reorganises between frames, per region.</summary>
+public static class SimilarityCommand
+{
+    public static Command Build(string[] commandLine)
+    {
+        var files = CommonOptions.Files();
+        var variable = CommonOptions.Variable();
+        var regions = CommonOptions.Regions();
+        var metric = new Option<string>("--metric")
+        {
+            Description = "metrics, comma-separated: ssim, vif, corr, rmsd, mean-abs-change (default: ssim,corr,rmsd,mean-abs-change)",
+            DefaultValueFactory = _ => "ssim,corr,rmsd,mean-abs-change",
+        };
+        var lag = new Option<int>("--lag") { Description = "compare each frame with the one LAG steps earlier", DefaultValueFactory = _ => 1 };
+        var range = new Option<string?>("--range") { Description = "fixed data range LO:HI for SSIM and VIF (default: valid_min/valid_max, else a default for the standard_name)" };
+        var acrossGaps = new Option<bool>("--across-gaps") { Description = "also compare frames across gaps in the record (they are skipped and listed otherwise)" };
+        var against = new Option<string?>("--against") { Description = "compare every frame with the one field in this file (same variable and grid), e.g. a climatology" };
+        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid in both frames gives NaN", DefaultValueFactory = _ => 0.5 };
+        var output = new Option<string>("--out") { Description = "series NetCDF to write (time, region), time stamped with the later frame, time_bnds (earlier, later)", Required = true };
+        var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
+        var radius = CommonOptions.EarthRadius();
+        var format = CommonOptions.Format();
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("similarity", "Frame-to-frame structural similarity (SSIM, VIF), correlation, RMS difference and mean absolute change per region.\n\n" +
+            "Example:\n  griddrift similarity cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --metric ssim,vif,corr,rmsd,mean-abs-change --out sim.nc --table sim.parquet")
+        {
+            files, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, quiet,
+        };
+        command.SetAction(parse =>
+        {
+            SimilarityMetric[] metrics;
+            try
+            {
+                metrics = parse.GetValue(metric)!.Split(',', StringSplitOptions.RemoveEmptyEntries).Select(SimilarityMetrics.Parse).Distinct().ToArray();
+            }
+            catch (FormatException e)
+            {
+                throw new BadInputException(null, null, e.Message);
+            }
+            var options = new SimilarityOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!, metrics,
+                parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(lag), parse.GetValue(range), parse.GetValue(acrossGaps), parse.GetValue(against),
+                parse.GetValue(minValid), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("similarity", commandLine));
+            var summary = SimilarityStep.Run(options);
+            var error = parse.InvocationConfiguration.Error;
+            if (summary.CellsOutsideRange > 0)
+                error.WriteLine($"griddrift similarity: warning: {summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High} ({summary.Range.Source}); SSIM's constants assume they do not");
+            if (!parse.GetValue(quiet))
+            {
+                error.WriteLine($"griddrift similarity: {summary.Pairs} pairs × {summary.Regions} regions written to {options.Output}" +
+                                (options.Table is null ? "" : $" and {options.Table}") + $"; data range {summary.Range.Low}:{summary.Range.High} ({summary.Range.Source})");
+                if (summary.Skipped.Count > 0)
+                    error.WriteLine($"griddrift similarity: {summary.Skipped.Count} pairs across gaps skipped (use --across-gaps to compare them): " +
+                                    string.Join(", ", summary.Skipped.Take(5).Select(s => $"{s.Earlier.ToIsoString()}/{s.Later.ToIsoString()}")) + (summary.Skipped.Count > 5 ? ", …" : ""));
+            }
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}
