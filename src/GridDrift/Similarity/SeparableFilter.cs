@@ -1,5 +1,4 @@
-using System.Numerics;
-
+using System.Runtime.Intrinsics;
 namespace GridDrift.Similarity;
 
 /// <summary>How a filter sees beyond the edge of a row or column.</summary>
@@ -39,15 +38,11 @@ public sealed class SeparableFilter
         var horizontal = _rows.AsSpan(0, rows * columns);
         for (int j = 0; j < rows; j++) FilterRow(field.Slice(j * columns, columns), xEdge, horizontal.Slice(j * columns, columns));
         // vertical: output row j = Σ_k w_k · horizontal row (j + k − r), rows beyond the edge mirrored or wrapped
+        Span<int> sources = stackalloc int[_kernel.Length];
         for (int j = 0; j < rows; j++)
         {
-            var target = output.Slice(j * columns, columns);
-            target.Clear();
-            for (int k = 0; k < _kernel.Length; k++)
-            {
-                int source = EdgeIndex(j + k - _radius, rows, yEdge);
-                Axpy(_kernel[k], horizontal.Slice(source * columns, columns), target);
-            }
+            for (int k = 0; k < _kernel.Length; k++) sources[k] = EdgeIndex(j + k - _radius, rows, yEdge) * columns;
+            Columns(horizontal, sources, columns, output.Slice(j * columns, columns));
         }
     }
 
@@ -59,17 +54,12 @@ public sealed class SeparableFilter
         EnsureScratch(rows, outColumns);
         var horizontal = _rows.AsSpan(0, rows * outColumns);
         for (int j = 0; j < rows; j++)
-        {
-            var target = horizontal.Slice(j * outColumns, outColumns);
-            target.Clear();
-            var row = field.Slice(j * columns, columns);
-            for (int k = 0; k < _kernel.Length; k++) Axpy(_kernel[k], row.Slice(k, outColumns), target);
-        }
+            Along(field.Slice(j * columns, columns), horizontal.Slice(j * outColumns, outColumns));
+        Span<int> sources = stackalloc int[_kernel.Length];
         for (int j = 0; j < outRows; j++)
         {
-            var target = output.Slice(j * outColumns, outColumns);
-            target.Clear();
-            for (int k = 0; k < _kernel.Length; k++) Axpy(_kernel[k], horizontal.Slice((j + k) * outColumns, outColumns), target);
+            for (int k = 0; k < _kernel.Length; k++) sources[k] = (j + k) * outColumns;
+            Columns(horizontal, sources, outColumns, output.Slice(j * outColumns, outColumns));
         }
     }
 
@@ -83,23 +73,57 @@ public sealed class SeparableFilter
             padded[r - i] = row[EdgeIndex(-i, n, edge)];
             padded[r + n - 1 + i] = row[EdgeIndex(n - 1 + i, n, edge)];
         }
-        target.Clear();
-        for (int k = 0; k < _kernel.Length; k++) Axpy(_kernel[k], padded.Slice(k, n), target);
+        Along(padded, target);
     }
 
-    /// <summary>target += a · x, vectorised.</summary>
-    static void Axpy(double a, ReadOnlySpan<double> x, Span<double> target)
+    /// <summary>target[i] = Σ_k w_k · source[i + k]: each output accumulates in a register, stored once.</summary>
+    internal void Along(ReadOnlySpan<double> source, Span<double> target)
     {
-        int i = 0;
-        if (Vector.IsHardwareAccelerated && x.Length >= Vector<double>.Count)
+        int n = target.Length, taps = _kernel.Length, i = 0;
+        ref double src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(source);
+        ref double dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
+        if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
         {
-            var va = new Vector<double>(a);
-            var xs = System.Runtime.InteropServices.MemoryMarshal.Cast<double, Vector<double>>(x);
-            var ts = System.Runtime.InteropServices.MemoryMarshal.Cast<double, Vector<double>>(target);
-            for (int v = 0; v < xs.Length; v++) ts[v] += va * xs[v];
-            i = xs.Length * Vector<double>.Count;
+            for (; i + 4 <= n; i += 4)
+            {
+                var acc = System.Runtime.Intrinsics.Vector256<double>.Zero;
+                for (int k = 0; k < taps; k++)
+                    acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + k)),
+                        System.Runtime.Intrinsics.Vector256.Create(_kernel[k]), acc);
+                acc.StoreUnsafe(ref dst, (nuint)i);
+            }
         }
-        for (; i < x.Length; i++) target[i] += a * x[i];
+        for (; i < n; i++)
+        {
+            double acc = 0;
+            for (int k = 0; k < taps; k++) acc += _kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, i + k);
+            System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
+        }
+    }
+
+    /// <summary>target[i] = Σ_k w_k · field[sources[k] + i]: a weighted sum of whole rows, column by column.</summary>
+    internal void Columns(ReadOnlySpan<double> field, ReadOnlySpan<int> sources, int n, Span<double> target)
+    {
+        int taps = _kernel.Length, i = 0;
+        ref double src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(field);
+        ref double dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
+        if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
+        {
+            for (; i + 4 <= n; i += 4)
+            {
+                var acc = System.Runtime.Intrinsics.Vector256<double>.Zero;
+                for (int k = 0; k < taps; k++)
+                    acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[k] + i)),
+                        System.Runtime.Intrinsics.Vector256.Create(_kernel[k]), acc);
+                acc.StoreUnsafe(ref dst, (nuint)i);
+            }
+        }
+        for (; i < n; i++)
+        {
+            double acc = 0;
+            for (int k = 0; k < taps; k++) acc += _kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[k] + i);
+            System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
+        }
     }
 
     /// <summary>Index of a position beyond the edge: mirrored half-sample symmetrically, or wrapped.</summary>
