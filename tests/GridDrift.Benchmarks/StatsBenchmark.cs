@@ -41,7 +41,8 @@ internal static class StatsBenchmark
                 var reducers = Enumerable.Range(0, workers).Select(_ => new RegionReducer(mask, stats, plan)).ToArray();
                 var outputs = Enumerable.Range(0, workers).Select(_ => new double[mask.Count * stats.Length]).ToArray();
                 int n = label.StartsWith("all") ? Math.Max(4, frames / 10) : frames;
-                reducers[0].Reduce(data[0], outputs[0]); // warm-up
+                // warm up past the JIT's tiers (a real run reduces thousands of frames)
+                Parallel.For(0, workers, w => { for (int i = 0; i < 6; i++) reducers[w].Reduce(data[i % 4], outputs[w]); });
                 var clock = Stopwatch.StartNew();
                 Parallel.For(0, workers, new ParallelOptions { MaxDegreeOfParallelism = workers }, w =>
                 {
