@@ -39,7 +39,7 @@ public class RegionsCommandTests
         Assert.NotEmpty(names);
     }
 
-    [Fact]
+    [InteropFact(Needs.Fonts)]
     public void The_PNG_map_has_the_requested_size_and_drawn_text()
     {
         using var dir = new TempFolder();
