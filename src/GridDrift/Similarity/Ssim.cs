@@ -86,6 +86,42 @@ public sealed class Ssim
         }
     }
 
+    /// <summary>The complete-frame case of <see cref="Combine"/>, eight cells at a time in float64 lanes, same grouping.</summary>
+    int CombineComplete(Span<float> target)
+    {
+        if (!System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated) return 0;
+        var fa = _out[1]; var fb = _out[2]; var faa = _out[3]; var fbb = _out[4]; var fab = _out[5];
+        var shift = System.Runtime.Intrinsics.Vector256.Create(_shift);
+        var c1 = System.Runtime.Intrinsics.Vector256.Create(_c1);
+        var c2 = System.Runtime.Intrinsics.Vector256.Create(_c2);
+        var two = System.Runtime.Intrinsics.Vector256.Create(2.0);
+        int i = 0;
+        for (; i + 8 <= _columns; i += 8)
+        {
+            var (maL, maH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fa.AsSpan(i, 8)));
+            var (mbL, mbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fb.AsSpan(i, 8)));
+            var (aaL, aaH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(faa.AsSpan(i, 8)));
+            var (bbL, bbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fbb.AsSpan(i, 8)));
+            var (abL, abH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fab.AsSpan(i, 8)));
+            var lo = Ratio(maL, mbL, aaL, bbL, abL, shift, c1, c2, two);
+            var hi = Ratio(maH, mbH, aaH, bbH, abH, shift, c1, c2, two);
+            System.Runtime.Intrinsics.Vector256.CopyTo(System.Runtime.Intrinsics.Vector256.Narrow(lo, hi), target.Slice(i, 8));
+        }
+        return i;
+    }
+
+    static System.Runtime.Intrinsics.Vector256<double> Ratio(System.Runtime.Intrinsics.Vector256<double> ma, System.Runtime.Intrinsics.Vector256<double> mb,
+        System.Runtime.Intrinsics.Vector256<double> saa, System.Runtime.Intrinsics.Vector256<double> sbb, System.Runtime.Intrinsics.Vector256<double> sab,
+        System.Runtime.Intrinsics.Vector256<double> shift, System.Runtime.Intrinsics.Vector256<double> c1, System.Runtime.Intrinsics.Vector256<double> c2,
+        System.Runtime.Intrinsics.Vector256<double> two)
+    {
+        var vaa = saa - ma * ma; var vbb = sbb - mb * mb; var vab = sab - ma * mb;
+        var mx = ma + shift; var my = mb + shift;
+        var a1 = two * (mx * my) + c1; var b1 = (mx * mx + my * my) + c1;
+        var a2 = two * vab + c2; var b2 = (vaa + vbb) + c2;
+        return a1 * a2 / (b1 * b2);
+    }
+
     void FilterSourceRow(ReadOnlySpan<float> x, ReadOnlySpan<float> y, int row, int slot, int firstField)
     {
         var xr = x.Slice(row * _columns, _columns);
@@ -139,7 +175,8 @@ public sealed class Ssim
     void Combine(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target)
     {
         var m = _out[0]; var fa = _out[1]; var fb = _out[2]; var faa = _out[3]; var fbb = _out[4]; var fab = _out[5];
-        for (int i = 0; i < _columns; i++)
+        int start = complete ? CombineComplete(target) : 0;
+        for (int i = start; i < _columns; i++)
         {
             double w = complete ? 1 : m[i];
             if (!complete && (float.IsNaN(xr[i]) || float.IsNaN(yr[i]) || w < MinWindowWeight))
@@ -161,46 +198,52 @@ public sealed class Ssim
     /// <summary>The filter loops in float32, eight lanes at a time, each output accumulated in a register.</summary>
     static class Kernels
     {
+        /// <summary>target[i] = Σ_k w_k · source[i + k] for a symmetric kernel: pairs of taps share one multiply.</summary>
         public static void Along(float[] kernel, ReadOnlySpan<float> source, Span<float> target)
         {
-            int n = target.Length, taps = kernel.Length, i = 0;
+            int n = target.Length, taps = kernel.Length, r = taps / 2, i = 0;
             ref float src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(source);
             ref float dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
             if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
                 for (; i + 8 <= n; i += 8)
                 {
-                    var acc = System.Runtime.Intrinsics.Vector256<float>.Zero;
-                    for (int k = 0; k < taps; k++)
-                        acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + k)),
-                            System.Runtime.Intrinsics.Vector256.Create(kernel[k]), acc);
+                    var acc = System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + r)) * System.Runtime.Intrinsics.Vector256.Create(kernel[r]);
+                    for (int k = 1; k <= r; k++)
+                        acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(
+                            System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + r - k)) + System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + r + k)),
+                            System.Runtime.Intrinsics.Vector256.Create(kernel[r + k]), acc);
                     System.Runtime.Intrinsics.Vector256.StoreUnsafe(acc, ref dst, (nuint)i);
                 }
             for (; i < n; i++)
             {
-                float acc = 0;
-                for (int k = 0; k < taps; k++) acc += kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, i + k);
+                float acc = kernel[r] * System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r);
+                for (int k = 1; k <= r; k++)
+                    acc += kernel[r + k] * (System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r - k) + System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r + k));
                 System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
             }
         }
 
+        /// <summary>target[i] = Σ_k w_k · field[sources[k] + i], pairing the symmetric taps.</summary>
         public static void Columns(float[] kernel, ReadOnlySpan<float> field, ReadOnlySpan<int> sources, int n, Span<float> target)
         {
-            int taps = kernel.Length, i = 0;
+            int taps = kernel.Length, r = taps / 2, i = 0;
             ref float src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(field);
             ref float dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
             if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
                 for (; i + 8 <= n; i += 8)
                 {
-                    var acc = System.Runtime.Intrinsics.Vector256<float>.Zero;
-                    for (int k = 0; k < taps; k++)
-                        acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[k] + i)),
-                            System.Runtime.Intrinsics.Vector256.Create(kernel[k]), acc);
+                    var acc = System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[r] + i)) * System.Runtime.Intrinsics.Vector256.Create(kernel[r]);
+                    for (int k = 1; k <= r; k++)
+                        acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(
+                            System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[r - k] + i)) + System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[r + k] + i)),
+                            System.Runtime.Intrinsics.Vector256.Create(kernel[r + k]), acc);
                     System.Runtime.Intrinsics.Vector256.StoreUnsafe(acc, ref dst, (nuint)i);
                 }
             for (; i < n; i++)
             {
-                float acc = 0;
-                for (int k = 0; k < taps; k++) acc += kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[k] + i);
+                float acc = kernel[r] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r] + i);
+                for (int k = 1; k <= r; k++)
+                    acc += kernel[r + k] * (System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r - k] + i) + System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r + k] + i));
                 System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
             }
         }
