@@ -76,52 +76,50 @@ public sealed class SeparableFilter
         Along(padded, target);
     }
 
-    /// <summary>target[i] = Σ_k w_k · source[i + k]: each output accumulates in a register, stored once.</summary>
+    /// <summary>target[i] = Σ_k w_k · source[i + k] for the symmetric kernel: pairs of taps share one multiply, accumulated in a register.</summary>
     internal void Along(ReadOnlySpan<double> source, Span<double> target)
     {
-        int n = target.Length, taps = _kernel.Length, i = 0;
+        int n = target.Length, r = _radius, i = 0;
         ref double src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(source);
         ref double dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
-        if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
-        {
+        if (Vector256.IsHardwareAccelerated)
             for (; i + 4 <= n; i += 4)
             {
-                var acc = System.Runtime.Intrinsics.Vector256<double>.Zero;
-                for (int k = 0; k < taps; k++)
-                    acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + k)),
-                        System.Runtime.Intrinsics.Vector256.Create(_kernel[k]), acc);
+                var acc = Vector256.LoadUnsafe(ref src, (nuint)(i + r)) * Vector256.Create(_kernel[r]);
+                for (int k = 1; k <= r; k++)
+                    acc = Vector256.FusedMultiplyAdd(Vector256.LoadUnsafe(ref src, (nuint)(i + r - k)) + Vector256.LoadUnsafe(ref src, (nuint)(i + r + k)),
+                        Vector256.Create(_kernel[r + k]), acc);
                 acc.StoreUnsafe(ref dst, (nuint)i);
             }
-        }
         for (; i < n; i++)
         {
-            double acc = 0;
-            for (int k = 0; k < taps; k++) acc += _kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, i + k);
+            double acc = _kernel[r] * System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r);
+            for (int k = 1; k <= r; k++)
+                acc += _kernel[r + k] * (System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r - k) + System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r + k));
             System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
         }
     }
 
-    /// <summary>target[i] = Σ_k w_k · field[sources[k] + i]: a weighted sum of whole rows, column by column.</summary>
+    /// <summary>target[i] = Σ_k w_k · field[sources[k] + i]: a weighted sum of whole rows, pairing the symmetric taps.</summary>
     internal void Columns(ReadOnlySpan<double> field, ReadOnlySpan<int> sources, int n, Span<double> target)
     {
-        int taps = _kernel.Length, i = 0;
+        int r = _radius, i = 0;
         ref double src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(field);
         ref double dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
-        if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
-        {
+        if (Vector256.IsHardwareAccelerated)
             for (; i + 4 <= n; i += 4)
             {
-                var acc = System.Runtime.Intrinsics.Vector256<double>.Zero;
-                for (int k = 0; k < taps; k++)
-                    acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[k] + i)),
-                        System.Runtime.Intrinsics.Vector256.Create(_kernel[k]), acc);
+                var acc = Vector256.LoadUnsafe(ref src, (nuint)(sources[r] + i)) * Vector256.Create(_kernel[r]);
+                for (int k = 1; k <= r; k++)
+                    acc = Vector256.FusedMultiplyAdd(Vector256.LoadUnsafe(ref src, (nuint)(sources[r - k] + i)) + Vector256.LoadUnsafe(ref src, (nuint)(sources[r + k] + i)),
+                        Vector256.Create(_kernel[r + k]), acc);
                 acc.StoreUnsafe(ref dst, (nuint)i);
             }
-        }
         for (; i < n; i++)
         {
-            double acc = 0;
-            for (int k = 0; k < taps; k++) acc += _kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[k] + i);
+            double acc = _kernel[r] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r] + i);
+            for (int k = 1; k <= r; k++)
+                acc += _kernel[r + k] * (System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r - k] + i) + System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r + k] + i));
             System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
         }
     }
