@@ -172,22 +172,28 @@ public static class SimilarityStep
         var held = Enumerable.Repeat(-1, slots).ToArray();
         float[] Frame(int index) => index < 0 ? reference! : ring[index % slots];
 
+        var toRead = new int[2 * workers];
+        var parallel = new ParallelOptions { MaxDegreeOfParallelism = workers };
         for (int batch = 0; batch < pairs.Count; batch += workers)
         {
             int n = Math.Min(workers, pairs.Count - batch);
-            var needed = new SortedSet<int>();
+            int count = 0;
+            void Need(int f)
+            {
+                if (f >= 0 && held[f % slots] != f && Array.IndexOf(toRead, f, 0, count) < 0) toRead[count++] = f;
+            }
             for (int p = batch; p < batch + n; p++)
             {
-                if (pairs[p].Earlier >= 0) needed.Add(pairs[p].Earlier);
-                needed.Add(pairs[p].Later);
+                Need(pairs[p].Earlier);
+                Need(pairs[p].Later);
             }
-            var toRead = needed.Where(f => held[f % slots] != f).ToArray();
-            Parallel.ForEach(toRead, new ParallelOptions { MaxDegreeOfParallelism = workers }, f =>
+            Parallel.For(0, count, parallel, k =>
             {
+                int f = toRead[k];
                 source.ReadFrame(f, ring[f % slots]);
                 held[f % slots] = f;
             });
-            Parallel.For(0, n, new ParallelOptions { MaxDegreeOfParallelism = workers }, w =>
+            Parallel.For(0, n, parallel, w =>
             {
                 var (earlier, later) = pairs[batch + w];
                 Compute(pool[w], o, mask, boxes, grid.Columns, range, Frame(earlier), Frame(later));

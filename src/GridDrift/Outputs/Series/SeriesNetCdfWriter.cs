@@ -20,6 +20,8 @@ public sealed class SeriesNetCdfWriter : ISeriesSink
     readonly ClassicWriter.Definition? _bounds;
     readonly SeriesLayout _layout;
     readonly double[] _row;
+    readonly double[] _one = new double[1];
+    readonly double[] _two = new double[2];
     long _record;
 
     public SeriesNetCdfWriter(string path, SeriesLayout layout, ClassicVariant? variant = null)
@@ -72,9 +74,14 @@ public sealed class SeriesNetCdfWriter : ISeriesSink
     public void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction, CfTime? earlier = null)
     {
         int nq = _layout.Quantities.Count, nr = _layout.Regions.Count;
-        _writer.WriteRecord<double>(_time, _record, [_layout.TimeUnits.Encode(time)]);
+        _one[0] = _layout.TimeUnits.Encode(time);
+        _writer.WriteRecord<double>(_time, _record, _one);
         if (_bounds is not null)
-            _writer.WriteRecord<double>(_bounds, _record, [_layout.TimeUnits.Encode(earlier ?? time), _layout.TimeUnits.Encode(time)]);
+        {
+            _two[0] = _layout.TimeUnits.Encode(earlier ?? time);
+            _two[1] = _one[0];
+            _writer.WriteRecord<double>(_bounds, _record, _two);
+        }
         for (int q = 0; q < nq; q++)
         {
             for (int r = 0; r < nr; r++) _row[r] = values[r * nq + q];
