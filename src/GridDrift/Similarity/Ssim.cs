@@ -22,8 +22,9 @@ public sealed class Ssim
     /// <summary>Fraction of the window weight that must fall on valid cells for a value.</summary>
     public const double MinWindowWeight = 0.5;
     const int Fields = 6; // m, a, b, aa, bb, ab
+    const int Block = 4;  // output rows filtered together: each loaded row serves up to four of them
 
-    readonly int _rows, _columns, _radius, _taps;
+    readonly int _rows, _columns, _radius, _taps, _slots;
     readonly Edge _xEdge;
     readonly double _c1, _c2;
     double _shift;
@@ -45,12 +46,13 @@ public sealed class Ssim
         _c2 = (K2 * l) * (K2 * l);
         _radius = _filter.Radius;
         _taps = 2 * _radius + 1;
+        _slots = Block + 2 * _radius;
         _kernel = GaussianKernel.Truncated(Sigma).Select(w => (float)w).ToArray();
-        _ring = Enumerable.Range(0, Fields).Select(_ => new float[_taps * columns]).ToArray();
+        _ring = Enumerable.Range(0, Fields).Select(_ => new float[_slots * columns]).ToArray();
         _padded = Enumerable.Range(0, Fields).Select(_ => new float[columns + 2 * _radius]).ToArray();
-        _out = Enumerable.Range(0, Fields).Select(_ => new float[columns]).ToArray();
-        _cached = new int[_taps];
-        _sources = new int[_taps];
+        _out = Enumerable.Range(0, Fields).Select(_ => new float[Block * columns]).ToArray();
+        _cached = new int[_slots];
+        _sources = new int[_slots];
     }
 
     /// <summary>Writes the SSIM map of the pair (x = earlier, y = later) into <paramref name="map"/>.</summary>
@@ -68,29 +70,39 @@ public sealed class Ssim
         _shift = count > 0 ? Math.Round(sum / count) : 0;
         Array.Fill(_cached, -1);
         int first = complete ? 1 : 0;
-        for (int j = 0; j < _rows; j++)
+        for (int j0 = 0; j0 < _rows; j0 += Block)
         {
-            for (int k = 0; k < _taps; k++)
+            int nb = Math.Min(Block, _rows - j0), inputs = nb + 2 * _radius;
+            // the input rows of the block form one contiguous run of source rows (reflection included), so slot = row mod slots never collides
+            for (int t = 0; t < inputs; t++)
             {
-                int s = SeparableFilter.EdgeIndex(j + k - _radius, _rows, Edge.Reflect);
-                int slot = s % _taps;
+                int s = SeparableFilter.EdgeIndex(j0 + t - _radius, _rows, Edge.Reflect);
+                int slot = s % _slots;
                 if (_cached[slot] != s)
                 {
                     FilterSourceRow(x, y, s, slot, first);
                     _cached[slot] = s;
                 }
-                _sources[k] = slot * _columns;
+                _sources[t] = slot * _columns;
             }
-            for (int f = first; f < Fields; f++) Kernels.Columns(_kernel, _ring[f], _sources, _columns, _out[f]);
-            Combine(x.Slice(j * _columns, _columns), y.Slice(j * _columns, _columns), complete, map.Slice(j * _columns, _columns));
+            for (int f = first; f < Fields; f++)
+                if (nb == Block) Kernels.ColumnsBlock(_kernel, _ring[f], _sources, _columns, _out[f]);
+                else
+                    for (int b = 0; b < nb; b++) Kernels.Columns(_kernel, _ring[f], _sources.AsSpan(b, _taps), _columns, _out[f].AsSpan(b * _columns, _columns));
+            for (int b = 0; b < nb; b++)
+            {
+                int j = j0 + b;
+                Combine(x.Slice(j * _columns, _columns), y.Slice(j * _columns, _columns), complete, map.Slice(j * _columns, _columns), b * _columns);
+            }
         }
     }
 
     /// <summary>The complete-frame case of <see cref="Combine"/>, eight cells at a time in float64 lanes, same grouping.</summary>
-    int CombineComplete(Span<float> target)
+    int CombineComplete(Span<float> target, int offset)
     {
         if (!System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated) return 0;
-        var fa = _out[1]; var fb = _out[2]; var faa = _out[3]; var fbb = _out[4]; var fab = _out[5];
+        var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns); var faa = _out[3].AsSpan(offset, _columns);
+        var fbb = _out[4].AsSpan(offset, _columns); var fab = _out[5].AsSpan(offset, _columns);
         var shift = System.Runtime.Intrinsics.Vector256.Create(_shift);
         var c1 = System.Runtime.Intrinsics.Vector256.Create(_c1);
         var c2 = System.Runtime.Intrinsics.Vector256.Create(_c2);
@@ -98,11 +110,11 @@ public sealed class Ssim
         int i = 0;
         for (; i + 8 <= _columns; i += 8)
         {
-            var (maL, maH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fa.AsSpan(i, 8)));
-            var (mbL, mbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fb.AsSpan(i, 8)));
-            var (aaL, aaH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(faa.AsSpan(i, 8)));
-            var (bbL, bbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fbb.AsSpan(i, 8)));
-            var (abL, abH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fab.AsSpan(i, 8)));
+            var (maL, maH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fa.Slice(i, 8)));
+            var (mbL, mbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fb.Slice(i, 8)));
+            var (aaL, aaH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(faa.Slice(i, 8)));
+            var (bbL, bbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fbb.Slice(i, 8)));
+            var (abL, abH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fab.Slice(i, 8)));
             var lo = Ratio(maL, mbL, aaL, bbL, abL, shift, c1, c2, two);
             var hi = Ratio(maH, mbH, aaH, bbH, abH, shift, c1, c2, two);
             System.Runtime.Intrinsics.Vector256.CopyTo(System.Runtime.Intrinsics.Vector256.Narrow(lo, hi), target.Slice(i, 8));
@@ -172,10 +184,11 @@ public sealed class Ssim
         _padded[5][p] = a * b;
     }
 
-    void Combine(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target)
+    void Combine(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target, int offset)
     {
-        var m = _out[0]; var fa = _out[1]; var fb = _out[2]; var faa = _out[3]; var fbb = _out[4]; var fab = _out[5];
-        int start = complete ? CombineComplete(target) : 0;
+        var m = _out[0].AsSpan(offset, _columns); var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
+        var faa = _out[3].AsSpan(offset, _columns); var fbb = _out[4].AsSpan(offset, _columns); var fab = _out[5].AsSpan(offset, _columns);
+        int start = complete ? CombineComplete(target, offset) : 0;
         for (int i = start; i < _columns; i++)
         {
             double w = complete ? 1 : m[i];
@@ -221,6 +234,41 @@ public sealed class Ssim
                     acc += kernel[r + k] * (System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r - k) + System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r + k));
                 System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
             }
+        }
+
+        /// <summary>
+        /// Four output rows at once: target row o (o = 0 … 3) is Σ_k w_k · field[sources[o + k] + i].
+        /// Each of the 14 input rows is loaded once per column step and feeds every output it reaches.
+        /// </summary>
+        public static void ColumnsBlock(float[] kernel, ReadOnlySpan<float> field, ReadOnlySpan<int> sources, int n, Span<float> target)
+        {
+            int taps = kernel.Length, i = 0;
+            ref float src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(field);
+            ref float dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
+            if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
+                for (; i + 8 <= n; i += 8)
+                {
+                    var a0 = System.Runtime.Intrinsics.Vector256<float>.Zero; var a1 = a0; var a2 = a0; var a3 = a0;
+                    for (int t = 0; t < taps + 3; t++)
+                    {
+                        var v = System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[t] + i));
+                        if (t < taps) a0 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t]), a0);
+                        if (t >= 1 && t - 1 < taps) a1 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t - 1]), a1);
+                        if (t >= 2 && t - 2 < taps) a2 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t - 2]), a2);
+                        if (t >= 3) a3 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t - 3]), a3);
+                    }
+                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a0, ref dst, (nuint)i);
+                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a1, ref dst, (nuint)(n + i));
+                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a2, ref dst, (nuint)(2 * n + i));
+                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a3, ref dst, (nuint)(3 * n + i));
+                }
+            for (; i < n; i++)
+                for (int o = 0; o < 4; o++)
+                {
+                    float acc = 0;
+                    for (int k = 0; k < taps; k++) acc += kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[o + k] + i);
+                    System.Runtime.CompilerServices.Unsafe.Add(ref dst, o * n + i) = acc;
+                }
         }
 
         /// <summary>target[i] = Σ_k w_k · field[sources[k] + i], pairing the symmetric taps.</summary>
