@@ -29,7 +29,6 @@ public sealed class Grid
 
     public int CellCount => Rows * Columns;
     public bool IsRectilinear => LatEdges is not null;
-    public bool IsValid(int cell) => CellArea[cell] > 0;
 
     /// <summary>Position in a frame of the cell at (row, column).</summary>
     public int FrameIndex(int row, int column) => ColumnsFirst ? column * Rows + row : row * Columns + column;

@@ -78,19 +78,10 @@ public static class SimilarityStep
             },
             HasTimeBounds: reference is null);
 
-        var sinks = new List<ISeriesSink>();
-        try
-        {
-            sinks.Add(new SeriesNetCdfWriter(o.Output, layout, o.Format));
-            if (o.Table is not null) sinks.Add(new SeriesParquetWriter(o.Table, layout));
-            long outside = Stream(source, grid, mask, plan, range, periodic, o, reference, pairs, sinks, progress);
-            foreach (var s in sinks) s.Complete();
-            return new SimilaritySummary(pairs.Count, skipped, range, outside, mask.Count);
-        }
-        finally
-        {
-            foreach (var s in sinks) s.Dispose();
-        }
+        using var products = new SeriesProducts(o.Output, o.Table, layout, o.Format);
+        long outside = Stream(source, grid, mask, plan, range, periodic, o, reference, pairs, products, progress);
+        products.Complete();
+        return new SimilaritySummary(pairs.Count, skipped, range, outside, mask.Count);
     }
 
     static double[] Latitudes(Grid grid) => Enumerable.Range(0, grid.Rows).Select(j => grid.CenterLat[j * grid.Columns]).ToArray();
@@ -148,7 +139,7 @@ public static class SimilarityStep
     }
 
     static long Stream(FrameSource source, Grid grid, RegionMask mask, SeparablePlan? plan, DataRange range, bool periodic, SimilarityOptions o,
-        float[]? reference, List<(int Earlier, int Later)> pairs, List<ISeriesSink> sinks, IProgress<(int, int)>? progress)
+        float[]? reference, List<(int Earlier, int Later)> pairs, ISeriesSink sink, IProgress<(int, int)>? progress)
     {
         int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount);
         int nq = o.Metrics.Count;
@@ -201,8 +192,7 @@ public static class SimilarityStep
             for (int w = 0; w < n; w++)
             {
                 var (earlier, later) = pairs[batch + w];
-                foreach (var sink in sinks)
-                    sink.Write(source.Times[later], pool[w].Values, pool[w].Valid, earlier >= 0 ? source.Times[earlier] : null);
+                sink.Write(source.Times[later], pool[w].Values, pool[w].Valid, earlier >= 0 ? source.Times[earlier] : null);
             }
             progress?.Report((batch + n, pairs.Count));
         }

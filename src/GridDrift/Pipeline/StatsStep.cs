@@ -58,23 +58,14 @@ public static class StatsStep
                 ["quantile_definition"] = "area-weighted, Hazen plotting positions (Hyndman & Fan 1996 definition 5 for equal weights)",
             });
 
-        var sinks = new List<ISeriesSink>();
-        try
-        {
-            sinks.Add(new SeriesNetCdfWriter(o.Output, layout, o.Format));
-            if (o.Table is not null) sinks.Add(new SeriesParquetWriter(o.Table, layout));
-            var counts = Stream(source, mask, plan, o.Statistics, statistics.Length, o.MinValid, sinks, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
-            foreach (var s in sinks) s.Complete();
-            return new StatsSummary(source.FrameCount, mask.Count, (long)source.FrameCount * mask.Count * statistics.Length, counts.Below, counts.NoData, grid, mask);
-        }
-        finally
-        {
-            foreach (var s in sinks) s.Dispose();
-        }
+        using var products = new SeriesProducts(o.Output, o.Table, layout, o.Format);
+        var counts = Stream(source, mask, plan, o.Statistics, statistics.Length, o.MinValid, products, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+        products.Complete();
+        return new StatsSummary(source.FrameCount, mask.Count, (long)source.FrameCount * mask.Count * statistics.Length, counts.Below, counts.NoData, grid, mask);
     }
 
     static (long Below, long NoData) Stream(FrameSource source, RegionMask mask, SeparablePlan? plan, IReadOnlyList<RegionStatistic> requested, int quantities,
-        double minValid, List<ISeriesSink> sinks, int workers, IProgress<(int, int)>? progress)
+        double minValid, ISeriesSink sink, int workers, IProgress<(int, int)>? progress)
     {
         var withValid = requested.Where(s => s != RegionStatistic.Valid).Append(RegionStatistic.Valid).ToArray();
         int stride = withValid.Length;
@@ -105,7 +96,7 @@ public static class StatsStep
                     else if (drop) below++;
                     for (int q = 0; q < quantities; q++) values[r * quantities + q] = drop ? double.NaN : result[r * stride + q];
                 }
-                foreach (var sink in sinks) sink.Write(source.Times[batch + w], values, valid);
+                sink.Write(source.Times[batch + w], values, valid);
             }
             progress?.Report((batch + n, source.FrameCount));
         }

@@ -11,16 +11,15 @@ public enum Edge
 }
 
 /// <summary>
-/// Separable filtering of row-major float64 fields: first along rows (x), then along columns
-/// (y), each pass a straight SIMD loop over a padded copy, so the edge rule costs nothing inside
-/// the loop. "Same" output keeps the size; "valid" output (MATLAB filter2's 'valid') drops the
-/// border where the window leaves the field.
+/// Separable 'valid' filtering (MATLAB filter2's 'valid': the border where the window leaves
+/// the field is dropped) of row-major float64 fields with a symmetric kernel: first along rows
+/// (x), then along columns (y), each a register-accumulating SIMD loop. The edge rules
+/// (<see cref="EdgeIndex"/>) serve the streaming SSIM filter.
 /// </summary>
 public sealed class SeparableFilter
 {
     readonly double[] _kernel;
     readonly int _radius;
-    double[] _padded = [];
     double[] _rows = [];
 
     public SeparableFilter(double[] kernel)
@@ -30,21 +29,6 @@ public sealed class SeparableFilter
     }
 
     public int Radius => _radius;
-
-    /// <summary>Filters <paramref name="field"/> (rows × columns) into <paramref name="output"/> of the same size.</summary>
-    public void Same(ReadOnlySpan<double> field, int rows, int columns, Edge xEdge, Edge yEdge, Span<double> output)
-    {
-        EnsureScratch(rows, columns);
-        var horizontal = _rows.AsSpan(0, rows * columns);
-        for (int j = 0; j < rows; j++) FilterRow(field.Slice(j * columns, columns), xEdge, horizontal.Slice(j * columns, columns));
-        // vertical: output row j = Σ_k w_k · horizontal row (j + k − r), rows beyond the edge mirrored or wrapped
-        Span<int> sources = stackalloc int[_kernel.Length];
-        for (int j = 0; j < rows; j++)
-        {
-            for (int k = 0; k < _kernel.Length; k++) sources[k] = EdgeIndex(j + k - _radius, rows, yEdge) * columns;
-            Columns(horizontal, sources, columns, output.Slice(j * columns, columns));
-        }
-    }
 
     /// <summary>'valid' filtering: output has (rows − 2r) × (columns − 2r) values.</summary>
     public void Valid(ReadOnlySpan<double> field, int rows, int columns, Span<double> output)
@@ -61,19 +45,6 @@ public sealed class SeparableFilter
             for (int k = 0; k < _kernel.Length; k++) sources[k] = (j + k) * outColumns;
             Columns(horizontal, sources, outColumns, output.Slice(j * outColumns, outColumns));
         }
-    }
-
-    void FilterRow(ReadOnlySpan<double> row, Edge edge, Span<double> target)
-    {
-        int n = row.Length, r = _radius;
-        var padded = _padded.AsSpan(0, n + 2 * r);
-        row.CopyTo(padded.Slice(r, n));
-        for (int i = 1; i <= r; i++)
-        {
-            padded[r - i] = row[EdgeIndex(-i, n, edge)];
-            padded[r + n - 1 + i] = row[EdgeIndex(n - 1 + i, n, edge)];
-        }
-        Along(padded, target);
     }
 
     /// <summary>target[i] = Σ_k w_k · source[i + k] for the symmetric kernel: pairs of taps share one multiply, accumulated in a register.</summary>
@@ -136,7 +107,6 @@ public sealed class SeparableFilter
 
     void EnsureScratch(int rows, int columns)
     {
-        if (_padded.Length < Math.Max(rows, columns) + 2 * _radius + 8) _padded = new double[Math.Max(rows, columns) + 2 * _radius + 8];
         if (_rows.Length < rows * columns) _rows = new double[rows * columns];
     }
 }
