@@ -12,7 +12,10 @@ namespace GridDrift.Similarity;
 /// window weight is below <see cref="MinWindowWeight"/>, gets no value (NaN). Moments are
 /// filtered in float32 on values shifted by the earlier frame's mean (so squares stay small and
 /// keep their digits) and combined in float64; against scikit-image's float64 maps the
-/// difference stays below 1e-5 per cell.
+/// difference stays below 1e-5 per cell. SSIM needs the second moments only as σx² + σy² and
+/// σxy, so the sum s = a + b and difference d = a − b are squared instead of a², b² and ab:
+/// E[a²] + E[b²] = (E[s²] + E[d²]) / 2 and 2E[ab] = (E[s²] − E[d²]) / 2, four filtered fields
+/// instead of five. For identical frames d = 0 and both halves of the ratio stay equal bit for bit.
 /// The filter streams row by row: the horizontally filtered rows of the local fields live in a
 /// ring of 11 rows, so a worker's memory is a few rows, not several copies of the frame.
 /// </summary>
@@ -21,7 +24,7 @@ public sealed class Ssim
     public const double K1 = 0.01, K2 = 0.03, Sigma = 1.5;
     /// <summary>Fraction of the window weight that must fall on valid cells for a value.</summary>
     public const double MinWindowWeight = 0.5;
-    const int Fields = 6; // m, a, b, aa, bb, ab
+    const int Fields = 5; // m, a, b, ss, dd
     const int Block = 4;  // output rows filtered together: each loaded row serves up to four of them
 
     readonly int _rows, _columns, _radius, _taps, _slots;
@@ -46,6 +49,7 @@ public sealed class Ssim
         _c2 = (K2 * l) * (K2 * l);
         _radius = _filter.Radius;
         _taps = 2 * _radius + 1;
+        if (_taps != SsimKernels.Taps) throw new InternalFaultException($"SSIM's window has {_taps} taps; its kernels are written for {SsimKernels.Taps}");
         _slots = Block + 2 * _radius;
         _kernel = GaussianKernel.Truncated(Sigma).Select(w => (float)w).ToArray();
         _ring = Enumerable.Range(0, Fields).Select(_ => new float[_slots * columns]).ToArray();
@@ -86,9 +90,9 @@ public sealed class Ssim
                 _sources[t] = slot * _columns;
             }
             for (int f = first; f < Fields; f++)
-                if (nb == Block) Kernels.ColumnsBlock(_kernel, _ring[f], _sources, _columns, _out[f]);
+                if (nb == Block) SsimKernels.ColumnsBlock(_kernel, _ring[f], _sources, _columns, _out[f]);
                 else
-                    for (int b = 0; b < nb; b++) Kernels.Columns(_kernel, _ring[f], _sources.AsSpan(b, _taps), _columns, _out[f].AsSpan(b * _columns, _columns));
+                    for (int b = 0; b < nb; b++) SsimKernels.Columns(_kernel, _ring[f], _sources.AsSpan(b, _taps), _columns, _out[f].AsSpan(b * _columns, _columns));
             for (int b = 0; b < nb; b++)
             {
                 int j = j0 + b;
@@ -101,8 +105,8 @@ public sealed class Ssim
     int CombineComplete(Span<float> target, int offset)
     {
         if (!System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated) return 0;
-        var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns); var faa = _out[3].AsSpan(offset, _columns);
-        var fbb = _out[4].AsSpan(offset, _columns); var fab = _out[5].AsSpan(offset, _columns);
+        var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
+        var fss = _out[3].AsSpan(offset, _columns); var fdd = _out[4].AsSpan(offset, _columns);
         var shift = System.Runtime.Intrinsics.Vector256.Create(_shift);
         var c1 = System.Runtime.Intrinsics.Vector256.Create(_c1);
         var c2 = System.Runtime.Intrinsics.Vector256.Create(_c2);
@@ -112,25 +116,26 @@ public sealed class Ssim
         {
             var (maL, maH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fa.Slice(i, 8)));
             var (mbL, mbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fb.Slice(i, 8)));
-            var (aaL, aaH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(faa.Slice(i, 8)));
-            var (bbL, bbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fbb.Slice(i, 8)));
-            var (abL, abH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fab.Slice(i, 8)));
-            var lo = Ratio(maL, mbL, aaL, bbL, abL, shift, c1, c2, two);
-            var hi = Ratio(maH, mbH, aaH, bbH, abH, shift, c1, c2, two);
+            var (ssL, ssH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fss.Slice(i, 8)));
+            var (ddL, ddH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fdd.Slice(i, 8)));
+            var lo = Ratio(maL, mbL, ssL, ddL, shift, c1, c2, two);
+            var hi = Ratio(maH, mbH, ssH, ddH, shift, c1, c2, two);
             System.Runtime.Intrinsics.Vector256.CopyTo(System.Runtime.Intrinsics.Vector256.Narrow(lo, hi), target.Slice(i, 8));
         }
         return i;
     }
 
     static System.Runtime.Intrinsics.Vector256<double> Ratio(System.Runtime.Intrinsics.Vector256<double> ma, System.Runtime.Intrinsics.Vector256<double> mb,
-        System.Runtime.Intrinsics.Vector256<double> saa, System.Runtime.Intrinsics.Vector256<double> sbb, System.Runtime.Intrinsics.Vector256<double> sab,
+        System.Runtime.Intrinsics.Vector256<double> ss, System.Runtime.Intrinsics.Vector256<double> dd,
         System.Runtime.Intrinsics.Vector256<double> shift, System.Runtime.Intrinsics.Vector256<double> c1, System.Runtime.Intrinsics.Vector256<double> c2,
         System.Runtime.Intrinsics.Vector256<double> two)
     {
-        var vaa = saa - ma * ma; var vbb = sbb - mb * mb; var vab = sab - ma * mb;
+        var half = System.Runtime.Intrinsics.Vector256.Create(0.5);
+        var spread = (ss + dd) * half - (ma * ma + mb * mb);
+        var cov2 = (ss - dd) * half - two * (ma * mb);
         var mx = ma + shift; var my = mb + shift;
         var a1 = two * (mx * my) + c1; var b1 = (mx * mx + my * my) + c1;
-        var a2 = two * vab + c2; var b2 = (vaa + vbb) + c2;
+        var a2 = cov2 + c2; var b2 = spread + c2;
         return a1 * a2 / (b1 * b2);
     }
 
@@ -151,9 +156,9 @@ public sealed class Ssim
                 var b = System.Runtime.Intrinsics.Vector256.Create(yr.Slice(i, 8)) - vs;
                 System.Runtime.Intrinsics.Vector256.CopyTo(a, _padded[1].AsSpan(r + i));
                 System.Runtime.Intrinsics.Vector256.CopyTo(b, _padded[2].AsSpan(r + i));
-                System.Runtime.Intrinsics.Vector256.CopyTo(a * a, _padded[3].AsSpan(r + i));
-                System.Runtime.Intrinsics.Vector256.CopyTo(b * b, _padded[4].AsSpan(r + i));
-                System.Runtime.Intrinsics.Vector256.CopyTo(a * b, _padded[5].AsSpan(r + i));
+                var sum = a + b; var difference = a - b;
+                System.Runtime.Intrinsics.Vector256.CopyTo(sum * sum, _padded[3].AsSpan(r + i));
+                System.Runtime.Intrinsics.Vector256.CopyTo(difference * difference, _padded[4].AsSpan(r + i));
             }
             for (; i < _columns; i++) Put(xr[i], yr[i], r + i, shift);
             for (p = 0; p < r; p++)
@@ -169,7 +174,7 @@ public sealed class Ssim
                 int i = p < r || p >= _columns + r ? SeparableFilter.EdgeIndex(p - r, _columns, _xEdge) : p - r;
                 Put(xr[i], yr[i], p, shift);
             }
-        for (int f = firstField; f < Fields; f++) Kernels.Along(_kernel, _padded[f], _ring[f].AsSpan(slot * _columns, _columns));
+        for (int f = firstField; f < Fields; f++) SsimKernels.Along(_kernel, _padded[f], _ring[f].AsSpan(slot * _columns, _columns));
     }
 
     void Put(float xi, float yi, int p, float shift)
@@ -179,15 +184,15 @@ public sealed class Ssim
         _padded[0][p] = valid ? 1 : 0;
         _padded[1][p] = a;
         _padded[2][p] = b;
-        _padded[3][p] = a * a;
-        _padded[4][p] = b * b;
-        _padded[5][p] = a * b;
+        float sum = a + b, difference = a - b;
+        _padded[3][p] = sum * sum;
+        _padded[4][p] = difference * difference;
     }
 
     void Combine(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target, int offset)
     {
         var m = _out[0].AsSpan(offset, _columns); var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
-        var faa = _out[3].AsSpan(offset, _columns); var fbb = _out[4].AsSpan(offset, _columns); var fab = _out[5].AsSpan(offset, _columns);
+        var fss = _out[3].AsSpan(offset, _columns); var fdd = _out[4].AsSpan(offset, _columns);
         int start = complete ? CombineComplete(target, offset) : 0;
         for (int i = start; i < _columns; i++)
         {
@@ -199,101 +204,13 @@ public sealed class Ssim
             }
             double inv = 1 / w;
             double ma = fa[i] * inv, mb = fb[i] * inv;
-            double vaa = faa[i] * inv - ma * ma, vbb = fbb[i] * inv - mb * mb, vab = fab[i] * inv - ma * mb;
+            double ss = fss[i] * inv, dd = fdd[i] * inv;
+            double spread = (ss + dd) * 0.5 - (ma * ma + mb * mb), cov2 = (ss - dd) * 0.5 - 2.0 * (ma * mb);
             double mx = ma + _shift, my = mb + _shift;
             // grouped so that identical frames give exactly 1: 2(μxμy) = μx² + μy² and 2σxy = σx² + σy² bit for bit
             double a1 = 2.0 * (mx * my) + _c1, b1 = (mx * mx + my * my) + _c1;
-            double a2 = 2.0 * vab + _c2, b2 = (vaa + vbb) + _c2;
+            double a2 = cov2 + _c2, b2 = spread + _c2;
             target[i] = (float)(a1 * a2 / (b1 * b2));
-        }
-    }
-
-    /// <summary>The filter loops in float32, eight lanes at a time, each output accumulated in a register.</summary>
-    static class Kernels
-    {
-        /// <summary>target[i] = Σ_k w_k · source[i + k] for a symmetric kernel: pairs of taps share one multiply.</summary>
-        public static void Along(float[] kernel, ReadOnlySpan<float> source, Span<float> target)
-        {
-            int n = target.Length, taps = kernel.Length, r = taps / 2, i = 0;
-            ref float src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(source);
-            ref float dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
-            if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
-                for (; i + 8 <= n; i += 8)
-                {
-                    var acc = System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + r)) * System.Runtime.Intrinsics.Vector256.Create(kernel[r]);
-                    for (int k = 1; k <= r; k++)
-                        acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(
-                            System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + r - k)) + System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(i + r + k)),
-                            System.Runtime.Intrinsics.Vector256.Create(kernel[r + k]), acc);
-                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(acc, ref dst, (nuint)i);
-                }
-            for (; i < n; i++)
-            {
-                float acc = kernel[r] * System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r);
-                for (int k = 1; k <= r; k++)
-                    acc += kernel[r + k] * (System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r - k) + System.Runtime.CompilerServices.Unsafe.Add(ref src, i + r + k));
-                System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
-            }
-        }
-
-        /// <summary>
-        /// Four output rows at once: target row o (o = 0 … 3) is Σ_k w_k · field[sources[o + k] + i].
-        /// Each of the 14 input rows is loaded once per column step and feeds every output it reaches.
-        /// </summary>
-        public static void ColumnsBlock(float[] kernel, ReadOnlySpan<float> field, ReadOnlySpan<int> sources, int n, Span<float> target)
-        {
-            int taps = kernel.Length, i = 0;
-            ref float src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(field);
-            ref float dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
-            if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
-                for (; i + 8 <= n; i += 8)
-                {
-                    var a0 = System.Runtime.Intrinsics.Vector256<float>.Zero; var a1 = a0; var a2 = a0; var a3 = a0;
-                    for (int t = 0; t < taps + 3; t++)
-                    {
-                        var v = System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[t] + i));
-                        if (t < taps) a0 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t]), a0);
-                        if (t >= 1 && t - 1 < taps) a1 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t - 1]), a1);
-                        if (t >= 2 && t - 2 < taps) a2 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t - 2]), a2);
-                        if (t >= 3) a3 = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(v, System.Runtime.Intrinsics.Vector256.Create(kernel[t - 3]), a3);
-                    }
-                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a0, ref dst, (nuint)i);
-                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a1, ref dst, (nuint)(n + i));
-                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a2, ref dst, (nuint)(2 * n + i));
-                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(a3, ref dst, (nuint)(3 * n + i));
-                }
-            for (; i < n; i++)
-                for (int o = 0; o < 4; o++)
-                {
-                    float acc = 0;
-                    for (int k = 0; k < taps; k++) acc += kernel[k] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[o + k] + i);
-                    System.Runtime.CompilerServices.Unsafe.Add(ref dst, o * n + i) = acc;
-                }
-        }
-
-        /// <summary>target[i] = Σ_k w_k · field[sources[k] + i], pairing the symmetric taps.</summary>
-        public static void Columns(float[] kernel, ReadOnlySpan<float> field, ReadOnlySpan<int> sources, int n, Span<float> target)
-        {
-            int taps = kernel.Length, r = taps / 2, i = 0;
-            ref float src = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(field);
-            ref float dst = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(target);
-            if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
-                for (; i + 8 <= n; i += 8)
-                {
-                    var acc = System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[r] + i)) * System.Runtime.Intrinsics.Vector256.Create(kernel[r]);
-                    for (int k = 1; k <= r; k++)
-                        acc = System.Runtime.Intrinsics.Vector256.FusedMultiplyAdd(
-                            System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[r - k] + i)) + System.Runtime.Intrinsics.Vector256.LoadUnsafe(ref src, (nuint)(sources[r + k] + i)),
-                            System.Runtime.Intrinsics.Vector256.Create(kernel[r + k]), acc);
-                    System.Runtime.Intrinsics.Vector256.StoreUnsafe(acc, ref dst, (nuint)i);
-                }
-            for (; i < n; i++)
-            {
-                float acc = kernel[r] * System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r] + i);
-                for (int k = 1; k <= r; k++)
-                    acc += kernel[r + k] * (System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r - k] + i) + System.Runtime.CompilerServices.Unsafe.Add(ref src, sources[r + k] + i));
-                System.Runtime.CompilerServices.Unsafe.Add(ref dst, i) = acc;
-            }
         }
     }
 }
