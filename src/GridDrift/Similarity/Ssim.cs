@@ -60,6 +60,7 @@ public sealed class Ssim
     }
 
     /// <summary>Writes the SSIM map of the pair (x = earlier, y = later) into <paramref name="map"/>.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Map(ReadOnlySpan<float> x, ReadOnlySpan<float> y, Span<float> map)
     {
         bool complete = true;
@@ -102,6 +103,7 @@ public sealed class Ssim
     }
 
     /// <summary>The complete-frame case of <see cref="Combine"/>, eight cells at a time in float64 lanes, same grouping.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     int CombineComplete(Span<float> target, int offset)
     {
         if (!System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated) return 0;
@@ -139,6 +141,7 @@ public sealed class Ssim
         return a1 * a2 / (b1 * b2);
     }
 
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     void FilterSourceRow(ReadOnlySpan<float> x, ReadOnlySpan<float> y, int row, int slot, int firstField)
     {
         var xr = x.Slice(row * _columns, _columns);
@@ -189,6 +192,7 @@ public sealed class Ssim
         _padded[4][p] = difference * difference;
     }
 
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     void Combine(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target, int offset)
     {
         var m = _out[0].AsSpan(offset, _columns); var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);

@@ -15,6 +15,7 @@ static class SsimKernels
     public const int Taps = 11, Radius = 5;
 
     /// <summary>target[i] = Σ_k w_k · source[i + k]; pairs of symmetric taps share one multiply.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static void Along(float[] kernel, ReadOnlySpan<float> source, Span<float> target)
     {
         int n = target.Length, i = 0;
@@ -53,6 +54,7 @@ static class SsimKernels
     /// Four output rows at once: target row o (o = 0 … 3) is Σ_k w_k · field[sources[o + k] + i].
     /// Each of the 14 input rows is loaded once per column step and feeds every output it reaches.
     /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static void ColumnsBlock(float[] kernel, ReadOnlySpan<float> field, ReadOnlySpan<int> sources, int n, Span<float> target)
     {
         int i = 0;
@@ -158,6 +160,7 @@ static class SsimKernels
     }
 
     /// <summary>target[i] = Σ_k w_k · field[sources[k] + i], pairing the symmetric taps (the last rows of a frame).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static void Columns(float[] kernel, ReadOnlySpan<float> field, ReadOnlySpan<int> sources, int n, Span<float> target)
     {
         ref float src = ref MemoryMarshal.GetReference(field);
