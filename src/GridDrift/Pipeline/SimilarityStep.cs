@@ -164,31 +164,31 @@ public static class SimilarityStep
         float[] Frame(int index) => index < 0 ? reference! : ring[index % slots];
 
         var toRead = new int[2 * workers];
-        var parallel = new ParallelOptions { MaxDegreeOfParallelism = workers };
-        for (int batch = 0; batch < pairs.Count; batch += workers)
+        int batch = 0, n = 0, count = 0;
+        // both job bodies are made once: they read the batch's bounds from the variables above
+        Action<int> read = k =>
         {
-            int n = Math.Min(workers, pairs.Count - batch);
-            int count = 0;
-            void Need(int f)
-            {
-                if (f >= 0 && held[f % slots] != f && Array.IndexOf(toRead, f, 0, count) < 0) toRead[count++] = f;
-            }
+            int f = toRead[k];
+            source.ReadFrame(f, ring[f % slots]);
+            held[f % slots] = f;
+        };
+        Action<int> compute = w =>
+        {
+            var (earlier, later) = pairs[batch + w];
+            Compute(pool[w], o, mask, boxes, grid.Columns, range, Frame(earlier), Frame(later));
+        };
+        using var team = new WorkerTeam(workers);
+        for (batch = 0; batch < pairs.Count; batch += workers)
+        {
+            n = Math.Min(workers, pairs.Count - batch);
+            count = 0;
             for (int p = batch; p < batch + n; p++)
             {
                 Need(pairs[p].Earlier);
                 Need(pairs[p].Later);
             }
-            Parallel.For(0, count, parallel, k =>
-            {
-                int f = toRead[k];
-                source.ReadFrame(f, ring[f % slots]);
-                held[f % slots] = f;
-            });
-            Parallel.For(0, n, parallel, w =>
-            {
-                var (earlier, later) = pairs[batch + w];
-                Compute(pool[w], o, mask, boxes, grid.Columns, range, Frame(earlier), Frame(later));
-            });
+            team.Run(count, read);
+            team.Run(n, compute);
             for (int w = 0; w < n; w++)
             {
                 var (earlier, later) = pairs[batch + w];
@@ -197,6 +197,11 @@ public static class SimilarityStep
             progress?.Report((batch + n, pairs.Count));
         }
         return pool.Sum(w => w.Outside);
+
+        void Need(int f)
+        {
+            if (f >= 0 && held[f % slots] != f && Array.IndexOf(toRead, f, 0, count) < 0) toRead[count++] = f;
+        }
     }
 
     static void Compute(Worker w, SimilarityOptions o, RegionMask mask, RegionBox[] boxes, int gridColumns, DataRange range, float[] a, float[] b)
