@@ -17,6 +17,8 @@ public static class CliApp
         root.Subcommands.Add(RegionsCommand.Build(args ?? []));
         root.Subcommands.Add(StatsCommand.Build(args ?? []));
         root.Subcommands.Add(SimilarityCommand.Build(args ?? []));
+        root.Subcommands.Add(ClimatologyCommand.Build(args ?? []));
+        root.Subcommands.Add(AnomaliesCommand.Build(args ?? []));
         return root;
     }
 

@@ -1,6 +1,6 @@
-using GridDrift.Pipeline;
+using GridDrift.Frames;
 
-namespace GridDrift.Tests.Pipeline;
+namespace GridDrift.Tests.Frames;
 
 public class WorkerTeamTests
 {

@@ -1,6 +1,6 @@
 using System.Runtime.ExceptionServices;
 
-namespace GridDrift.Pipeline;
+namespace GridDrift.Frames;
 
 /// <summary>
 /// A fixed team of threads that runs one indexed job at a time: <see cref="Run"/> calls

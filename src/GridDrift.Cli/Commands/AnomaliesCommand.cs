@@ -1,0 +1,50 @@
+using System.CommandLine;
+using GridDrift.Climatology;
+using GridDrift.Frames;
+using GridDrift.Pipeline;
+
+namespace GridDrift.Cli.Commands;
+
+/// <summary>`griddrift anomalies`: departures of every frame from a climatology, as fields and as region series.</summary>
+public static class AnomaliesCommand
+{
+    public static Command Build(string[] commandLine)
+    {
+        var files = CommonOptions.Files();
+        var variable = CommonOptions.Variable();
+        var climatology = new Option<string>("--climatology") { Description = "a climatology made by griddrift climatology", Required = true };
+        var kind = new Option<string>("--kind") { Description = "absolute (x − mean), relative (percent of the mean) or standardized (÷ standard deviation)", DefaultValueFactory = _ => "absolute" };
+        var output = new Option<string>("--out") { Description = "anomaly field NetCDF to write", Required = true };
+        var regions = CommonOptions.Regions();
+        regions.Required = false;
+        var table = new Option<string?>("--table") { Description = "with --regions: tidy Parquet table of the region-mean anomalies" };
+        var series = new Option<string?>("--series") { Description = "with --regions: series NetCDF of the region-mean anomalies (default: OUT_series.nc)" };
+        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 };
+        var format = CommonOptions.Format();
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("anomalies", "Anomalies of every frame from its climatology slot: absolute, relative or standardized, as fields and region series.\n\n" +
+            "Example:\n  griddrift anomalies cf-samples/tcwv_synthetic_2031.nc --var tcwv --climatology clim.nc --out anom.nc --regions global bands:30 --table anom.parquet")
+        {
+            files, variable, climatology, kind, output, regions, table, series, minValid, format, quiet,
+        };
+        command.SetAction(parse =>
+        {
+            var anomalyKind = Anomaly.Parse(parse.GetValue(kind)!)
+                ?? throw new BadInputException(null, null, $"--kind {parse.GetValue(kind)}: choose absolute, relative or standardized");
+            var regionSpecs = parse.GetValue(regions) ?? [];
+            if (regionSpecs.Length == 0 && (parse.GetValue(table) is not null || parse.GetValue(series) is not null))
+                throw new BadInputException(null, null, "--table and --series need --regions");
+            var options = new AnomaliesOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(climatology)!, anomalyKind,
+                parse.GetValue(output)!, regionSpecs, parse.GetValue(table), parse.GetValue(series), parse.GetValue(minValid),
+                CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("anomalies", commandLine));
+            var summary = AnomaliesStep.Run(options);
+            var err = parse.InvocationConfiguration.Error;
+            foreach (var w in summary.Warnings) err.WriteLine($"griddrift anomalies: warning: {w}");
+            if (!parse.GetValue(quiet))
+                err.WriteLine($"griddrift anomalies: {summary.Frames} frames written to {options.Output}" +
+                    (summary.Series is null ? "" : $"; region means to {summary.Series}") + (options.Table is null ? "" : $" and {options.Table}"));
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}

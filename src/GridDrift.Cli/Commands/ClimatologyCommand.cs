@@ -1,0 +1,41 @@
+using System.CommandLine;
+using GridDrift.Climatology;
+using GridDrift.Frames;
+using GridDrift.Pipeline;
+
+namespace GridDrift.Cli.Commands;
+
+/// <summary>`griddrift climatology`: mean, standard deviation and count per cell and slot of the year.</summary>
+public static class ClimatologyCommand
+{
+    public static Command Build(string[] commandLine)
+    {
+        var files = CommonOptions.Files();
+        var variable = CommonOptions.Variable();
+        var by = new Option<string>("--by") { Description = "slots: month, day-of-year or hour-by-month (the diurnal cycle of each month)", Required = true };
+        var basePeriod = new Option<string?>("--base") { Description = "base period START/END, e.g. 1991/2020 or 2031-01-01/2033-12-31 (default: the whole record)" };
+        var smooth = new Option<string?>("--smooth") { Description = "day-of-year smoothing: harmonics:N (first N annual harmonics) or window:DAYS (odd, wraps the year)" };
+        var output = new Option<string>("--out") { Description = "climatology NetCDF to write", Required = true };
+        var format = CommonOptions.Format();
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("climatology", "Climatological mean, standard deviation and sample count per cell and slot (CF Conventions §7.4).\n\n" +
+            "Example:\n  griddrift climatology cf-samples/tcwv_synthetic_2031.nc --var tcwv --by month --out clim.nc")
+        {
+            files, variable, by, basePeriod, smooth, output, format, quiet,
+        };
+        command.SetAction(parse =>
+        {
+            var kind = ClimatologyKinds.Parse(parse.GetValue(by)!)
+                ?? throw new BadInputException(null, null, $"--by {parse.GetValue(by)}: choose month, day-of-year or hour-by-month");
+            var options = new ClimatologyOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, kind, parse.GetValue(output)!,
+                parse.GetValue(basePeriod), parse.GetValue(smooth), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("climatology", commandLine));
+            var summary = ClimatologyStep.Run(options);
+            var err = parse.InvocationConfiguration.Error;
+            foreach (var w in summary.Warnings) err.WriteLine($"griddrift climatology: warning: {w}");
+            if (!parse.GetValue(quiet))
+                err.WriteLine($"griddrift climatology: {summary.FramesUsed} frames of {summary.Base.ToIsoString()} into {summary.Slots} slots, written to {options.Output}");
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}

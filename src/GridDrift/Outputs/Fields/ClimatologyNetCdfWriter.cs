@@ -1,0 +1,81 @@
+using GridDrift.Climatology;
+using GridDrift.Conventions.Time;
+using GridDrift.Formats;
+using GridDrift.Formats.Classic;
+
+namespace GridDrift.Outputs.Fields;
+
+/// <summary>The slot times and climatological bounds of each slot (CF Conventions §7.4).</summary>
+public sealed record SlotTimes(CfTime[] Times, CfTime[] BoundsStart, CfTime[] BoundsEnd);
+
+/// <summary>
+/// A climatology as CF Conventions §7.4 describes it: one time step per slot whose time
+/// coordinate carries `climatology = "climatology_bounds"` (and no `bounds`), climatological
+/// cell_methods ("time: mean within years time: mean over years"; the diurnal kind spans
+/// years: "time: mean within days time: mean over days time: mean over years"), the data
+/// variable under the input's name with NAME_std and NAME_count beside it, on the input's own
+/// grid, with the base period, kind and smoothing in the global attributes.
+/// </summary>
+public static class ClimatologyNetCdfWriter
+{
+    public const float Fill = 9.96921e36f; // netCDF's default float fill (NC_FILL_FLOAT)
+
+    public static void Write(string path, FieldTemplate template, string variable, SlotScheme scheme, ClimatologyFields fields, SlotTimes slots,
+        TimeUnits units, string calendarAttribute, IReadOnlyDictionary<string, string> globals, ClassicVariant? format)
+    {
+        using var w = new FieldNetCdfWriter(path, template, fields.Slots, format, globals);
+        var nv = w.AddDimension("nv", 2);
+        var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
+        [
+            NcAttribute.Text("standard_name", "time"), NcAttribute.Text("long_name", $"time of the climatology slot ({scheme.Kind.Name()})"),
+            NcAttribute.Text("units", units.Text), NcAttribute.Text("calendar", calendarAttribute), NcAttribute.Text("axis", "T"),
+            NcAttribute.Text("climatology", "climatology_bounds"),
+        ]);
+        var bounds = w.Writer.AddVariable("climatology_bounds", NcType.Double, [w.Time, nv],
+            [NcAttribute.Text("long_name", "first and last period of each slot: start of the slot in its first year, end of the slot in its last year")]);
+        string within = scheme.Kind == ClimatologyKind.HourByMonth ? "within days" : "within years";
+        string over = scheme.Kind == ClimatologyKind.HourByMonth ? "over days time: {0} over years" : "over years";
+        string Methods(string first, string second) => $"time: {first} {within} time: {second} " + string.Format(System.Globalization.CultureInfo.InvariantCulture, over, second);
+        var dims = w.FieldDimensions().ToArray();
+        string? standardName = template.DataAttribute("standard_name");
+        string units0 = template.DataAttribute("units") ?? "1";
+        var common = template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping").ToList();
+        var mean = w.Writer.AddVariable(variable, NcType.Float, dims, template.DataAttributes.Where(a => a.Name != "long_name")
+            .Append(NcAttribute.Text("long_name", $"climatological mean of {template.DataAttribute("long_name") ?? variable}"))
+            .Append(NcAttribute.Text("cell_methods", Methods("mean", "mean")))
+            .Append(NcAttribute.Text("ancillary_variables", $"{variable}_std {variable}_count"))
+            .Append(NcAttribute.Of("_FillValue", Fill)));
+        var std = w.Writer.AddVariable(variable + "_std", NcType.Float, dims, common
+            .Concat(standardName is null ? [] : new[] { NcAttribute.Text("standard_name", standardName) })
+            .Append(NcAttribute.Text("long_name", $"climatological standard deviation of {variable}"))
+            .Append(NcAttribute.Text("units", units0))
+            .Append(NcAttribute.Text("cell_methods", Methods("standard_deviation", "standard_deviation") +
+                " (comment: population standard deviation of all samples of the slot, pooled over the base period)"))
+            .Append(NcAttribute.Of("_FillValue", Fill)));
+        var count = w.Writer.AddVariable(variable + "_count", NcType.Float, dims, common
+            .Concat(standardName is null ? [] : new[] { NcAttribute.Text("standard_name", standardName + " number_of_observations") })
+            .Append(NcAttribute.Text("long_name", $"number of valid samples of {variable} in the slot"))
+            .Append(NcAttribute.Text("units", "1"))
+            .Append(NcAttribute.Text("cell_methods", Methods("sum", "sum"))));
+        w.EndDefinitions();
+
+        w.Writer.Write<double>(time, slots.Times.Select(units.Encode).ToArray());
+        var b = new double[2 * fields.Slots];
+        for (int s = 0; s < fields.Slots; s++)
+        {
+            b[2 * s] = units.Encode(slots.BoundsStart[s]);
+            b[2 * s + 1] = units.Encode(slots.BoundsEnd[s]);
+        }
+        w.Writer.Write<double>(bounds, b);
+        w.Writer.Write<float>(mean, Filled(fields.Mean));
+        w.Writer.Write<float>(std, Filled(fields.Std));
+        w.Writer.Write<float>(count, fields.Count);
+        w.Commit();
+    }
+
+    static float[] Filled(float[] values)
+    {
+        for (long i = 0; i < values.LongLength; i++) if (float.IsNaN(values[i])) values[i] = Fill;
+        return values;
+    }
+}

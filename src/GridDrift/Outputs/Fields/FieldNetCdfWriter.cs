@@ -1,0 +1,51 @@
+using GridDrift.Formats;
+using GridDrift.Formats.Classic;
+
+namespace GridDrift.Outputs.Fields;
+
+/// <summary>
+/// A field product in a classic NetCDF file: the input's frame dimensions and coordinates (from
+/// a <see cref="FieldTemplate"/>), a time dimension first, and whatever variables the product
+/// adds. Written under a temporary name and renamed by <see cref="Commit"/>.
+/// </summary>
+public sealed class FieldNetCdfWriter : IDisposable
+{
+    readonly FieldTemplate _template;
+    readonly List<(ClassicWriter.Definition Definition, double[] Values)> _copies = [];
+    readonly Dictionary<string, NcDimension> _dimensions = [];
+
+    public ClassicWriter Writer { get; }
+    public NcDimension Time { get; }
+
+    public FieldNetCdfWriter(string path, FieldTemplate template, long timeLength, ClassicVariant? format, IEnumerable<KeyValuePair<string, string>> globals)
+    {
+        _template = template;
+        Writer = ClassicWriter.Create(path, format);
+        foreach (var (k, v) in globals) Writer.AddAttribute(NcAttribute.Text(k, v));
+        Time = timeLength < 0 ? Writer.AddDimension("time", 0, unlimited: true) : Writer.AddDimension("time", timeLength);
+        foreach (var (name, length) in template.Dimensions) _dimensions[name] = Writer.AddDimension(name, length);
+        foreach (var c in template.Variables)
+            _copies.Add((Writer.AddVariable(c.Name, NcType.Double, c.Dimensions.Select(d => _dimensions[d]), c.Attributes), c.Values));
+    }
+
+    /// <summary>A further dimension; one the copies already brought is reused when its length agrees.</summary>
+    public NcDimension AddDimension(string name, long length)
+    {
+        if (_dimensions.TryGetValue(name, out var d))
+            return d.Length == length ? d : throw new InvalidOperationException($"dimension {name} exists with length {d.Length}, not {length}");
+        return _dimensions[name] = Writer.AddDimension(name, length);
+    }
+
+    /// <summary>The frame dimensions behind a leading time dimension.</summary>
+    public IEnumerable<NcDimension> FieldDimensions() => new[] { Time }.Concat(_template.FrameDimensions.Select(d => _dimensions[d]));
+
+    public void EndDefinitions()
+    {
+        Writer.EndDefinitions();
+        foreach (var (definition, values) in _copies) Writer.Write<double>(definition, values);
+    }
+
+    public void Commit() => Writer.Commit();
+
+    public void Dispose() => Writer.Dispose();
+}

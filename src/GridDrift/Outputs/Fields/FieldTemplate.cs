@@ -1,0 +1,74 @@
+using GridDrift.Formats;
+using GridDrift.Frames;
+
+namespace GridDrift.Outputs.Fields;
+
+/// <summary>
+/// What a field product copies from its input so it stands alone on the same grid: the frame's
+/// dimensions in the input's own order, the coordinate variables along them (1-D coordinates,
+/// 2-D auxiliary latitude/longitude, their bounds) and the grid_mapping variable, with values
+/// unpacked to float64, and the data variable's descriptive attributes.
+/// </summary>
+public sealed class FieldTemplate
+{
+    public sealed record CopiedVariable(string Name, string[] Dimensions, IReadOnlyList<NcAttribute> Attributes, double[] Values);
+
+    static readonly HashSet<string> Packing = ["_FillValue", "missing_value", "scale_factor", "add_offset", "valid_min", "valid_max", "valid_range", "_Unsigned"];
+    static readonly string[] Descriptive = ["standard_name", "long_name", "units", "coordinates", "grid_mapping"];
+
+    /// <summary>Frame dimensions (name, length) in stored order, then any bounds dimensions the copies need.</summary>
+    public IReadOnlyList<(string Name, long Length)> Dimensions { get; }
+    public IReadOnlyList<string> FrameDimensions { get; }
+    public IReadOnlyList<CopiedVariable> Variables { get; }
+    public IReadOnlyList<NcAttribute> DataAttributes { get; }
+
+    FieldTemplate(List<(string, long)> dims, List<string> frameDims, List<CopiedVariable> vars, List<NcAttribute> data)
+    {
+        Dimensions = dims;
+        FrameDimensions = frameDims;
+        Variables = vars;
+        DataAttributes = data;
+    }
+
+    public static FieldTemplate From(FrameSource source)
+    {
+        var reader = source.Template;
+        var data = reader.RequireVariable(source.VariableName);
+        var frameDims = source.FrameDimensions.Select(d => d.Name).ToList();
+        var dims = source.FrameDimensions.Select(d => (d.Name, d.Length)).ToList();
+        var chosen = new List<NcVariable>();
+        foreach (var v in reader.Variables)
+        {
+            bool coordinate = v.Rank == 1 && frameDims.Contains(v.Name) && v.Dimensions[0].Name == v.Name;
+            bool auxiliary = source.Axes.Auxiliary.Contains(v) && v.Dimensions.All(d => frameDims.Contains(d.Name));
+            if ((coordinate || auxiliary) && NcTypes.IsNumeric(v.Type)) chosen.Add(v);
+        }
+        foreach (var v in chosen.ToArray())
+            if (v.Attributes.Text("bounds") is { } b && reader.FindVariable(b) is { } bounds && NcTypes.IsNumeric(bounds.Type)
+                && bounds.Dimensions.Take(v.Rank).Select(d => d.Name).SequenceEqual(v.Dimensions.Select(d => d.Name)))
+            {
+                chosen.Add(bounds);
+                foreach (var d in bounds.Dimensions.Skip(v.Rank))
+                    if (!dims.Any(x => x.Item1 == d.Name)) dims.Add((d.Name, d.Length));
+            }
+        var copies = chosen.Select(v => Copy(reader, v)).ToList();
+        if (source.Axes.GridMapping is { } gm)
+            copies.Add(new CopiedVariable(gm.Name, [], gm.Attributes.Where(a => !Packing.Contains(a.Name)).Select(Classic).ToList(), [0]));
+        var dataAttributes = data.Attributes.Where(a => Descriptive.Contains(a.Name)).Select(Classic).ToList();
+        return new FieldTemplate(dims, frameDims, copies, dataAttributes);
+    }
+
+    static CopiedVariable Copy(IDatasetReader reader, NcVariable v)
+    {
+        var raw = reader.ReadAllDoubles(v);
+        double scale = v.Attributes.Find("scale_factor")?.FirstNumber() ?? 1, offset = v.Attributes.Find("add_offset")?.FirstNumber() ?? 0;
+        if (scale != 1 || offset != 0)
+            for (int i = 0; i < raw.Length; i++) raw[i] = raw[i] * scale + offset;
+        return new CopiedVariable(v.Name, v.Dimensions.Select(d => d.Name).ToArray(), v.Attributes.Where(a => !Packing.Contains(a.Name)).Select(Classic).ToList(), raw);
+    }
+
+    /// <summary>netCDF-4 string attributes become classic text attributes.</summary>
+    static NcAttribute Classic(NcAttribute a) => a.Type == NcType.String ? NcAttribute.Text(a.Name, a.AsText() ?? "") : a;
+
+    public string? DataAttribute(string name) => DataAttributes.Text(name);
+}

@@ -1,0 +1,169 @@
+using GridDrift.Climatology;
+using GridDrift.Conventions.Coordinates;
+using GridDrift.Conventions.Time;
+using GridDrift.Formats;
+using GridDrift.Formats.Classic;
+using GridDrift.Frames;
+using GridDrift.Grids;
+using GridDrift.Outputs;
+using GridDrift.Outputs.Fields;
+using GridDrift.Outputs.Series;
+using GridDrift.Regions;
+using GridDrift.Statistics;
+
+namespace GridDrift.Pipeline;
+
+public sealed record AnomaliesOptions(
+    IReadOnlyList<string> Inputs,
+    string Variable,
+    string Climatology,
+    AnomalyKind Kind,
+    string Output,
+    IReadOnlyList<string>? Regions = null,
+    string? Table = null,
+    string? Series = null,
+    double MinValid = 0.5,
+    ClassicVariant? Format = null,
+    string Command = "griddrift anomalies",
+    int Workers = 0);
+
+public sealed record AnomaliesSummary(int Frames, int FramesWithoutSlot, string? Series, IReadOnlyList<string> Warnings);
+
+/// <summary>
+/// `griddrift anomalies`: departures of every frame from its slot of a climatology, streamed
+/// field by field into a CF NetCDF on the input's grid and, with --regions, reduced to
+/// area-weighted region means (series NetCDF and Parquet table). Frames in flight are bounded
+/// by the worker count.
+/// </summary>
+public static class AnomaliesStep
+{
+    public static AnomaliesSummary Run(AnomaliesOptions o, IProgress<(int Done, int Total)>? progress = null)
+    {
+        using var source = FrameSource.Open(o.Inputs, o.Variable);
+        var clim = ClimatologyFile.Read(o.Climatology, o.Variable);
+        var warnings = new List<string>(source.Warnings);
+        if (clim.Cells != source.FrameLength)
+            throw new BadInputException(o.Climatology, o.Variable, $"has {clim.Cells} cells per slot; the frames of {source.Files[0]} have {source.FrameLength}");
+        if (clim.Scheme.Kind != ClimatologyKind.Month && clim.Scheme.Calendar != source.Calendar)
+            throw new BadInputException(o.Climatology, "time",
+                $"is in the {clim.Scheme.Calendar.CfName()} calendar but {source.Files[0]} is in {source.Calendar.CfName()}: {clim.Scheme.Kind.Name()} slots differ between them");
+        var template = FieldTemplate.From(source);
+        string units = template.DataAttribute("units") ?? "1";
+        string anomalyUnits = o.Kind switch { AnomalyKind.Absolute => units, AnomalyKind.Relative => "%", _ => "1" };
+        string longName = $"{o.Kind.Name()} anomaly of {template.DataAttribute("long_name") ?? o.Variable} from its {clim.Scheme.Kind.Name()} climatology";
+        var provenance = Provenance.For(o.Command, source.Files.Append(o.Climatology).ToArray());
+        var extra = new Dictionary<string, string>
+        {
+            ["title"] = $"{o.Kind.Name()} anomalies of {o.Variable}",
+            ["anomaly_kind"] = o.Kind.Name() + o.Kind switch
+            {
+                AnomalyKind.Relative => $": 100 (x - mean) / mean; missing where |mean| <= {Anomaly.RelativeGuard:g}",
+                AnomalyKind.Standardized => $": (x - mean) / std; missing where std <= max(1e-12, {Anomaly.StandardizedGuard:g} |mean|)",
+                _ => ": x - mean",
+            },
+            ["climatology_file"] = Path.GetFileName(o.Climatology),
+            ["climatology_kind"] = clim.Scheme.Kind.Name(),
+            ["climatology_base_period"] = clim.BasePeriod,
+        };
+
+        RegionMask? mask = null;
+        SeparablePlan? plan = null;
+        SeriesProducts? series = null;
+        string? seriesPath = null;
+        if (o.Regions is { Count: > 0 })
+        {
+            var grid = GridReader.Read(source.Template, source.Axes);
+            if (grid.CellCount != source.FrameLength)
+                throw new BadInputException(source.Files[0], o.Variable, "frames with dimensions other than time, latitude and longitude cannot be reduced to regions");
+            var shapes = RegionSpecs.ParseInput(o.Regions);
+            mask = RegionMaskBuilder.Build(grid, shapes);
+            plan = SeparablePlan.TryBuild(grid, shapes);
+            seriesPath = o.Series ?? Path.Combine(Path.GetDirectoryName(Path.GetFullPath(o.Output))!, Path.GetFileNameWithoutExtension(o.Output) + "_series.nc");
+            var calendarAttribute0 = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
+            string quantity = o.Kind == AnomalyKind.Absolute ? "anomaly" : o.Kind.Name() + "_anomaly";
+            var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea,
+                [new SeriesQuantity(quantity, "area-weighted mean of the " + longName, anomalyUnits, "area: mean")],
+                source.TimeUnits, calendarAttribute0, provenance, extra);
+            series = new SeriesProducts(seriesPath, o.Table, layout, o.Format);
+        }
+        try
+        {
+            var calendarAttribute = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
+            using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, provenance.AsKeyValues(extra));
+            var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
+            [
+                NcAttribute.Text("standard_name", "time"), NcAttribute.Text("long_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text),
+                NcAttribute.Text("calendar", calendarAttribute), NcAttribute.Text("axis", "T"),
+            ]);
+            var data = w.Writer.AddVariable(o.Variable, NcType.Float, w.FieldDimensions(), template.DataAttributes
+                .Where(a => a.Name is "coordinates" or "grid_mapping")
+                .Append(NcAttribute.Text("long_name", longName))
+                .Append(NcAttribute.Text("units", anomalyUnits))
+                .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
+            w.EndDefinitions();
+            int noSlot = Stream(source, clim, o, mask, plan, w, time, data, series, progress);
+            if (noSlot > 0) warnings.Add($"{noSlot} frames fall in no slot of the climatology (a time of day it does not hold): their anomalies are missing");
+            w.Commit();
+            series?.Complete();
+            return new AnomaliesSummary(source.FrameCount, noSlot, seriesPath, warnings);
+        }
+        finally
+        {
+            series?.Dispose();
+        }
+    }
+
+    static int Stream(FrameSource source, ClimatologyFile clim, AnomaliesOptions o, RegionMask? mask, SeparablePlan? plan,
+        FieldNetCdfWriter w, ClassicWriter.Definition time, ClassicWriter.Definition data, ISeriesSink? series, IProgress<(int, int)>? progress)
+    {
+        int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount);
+        var frames = Enumerable.Range(0, workers).Select(_ => new float[source.FrameLength]).ToArray();
+        var anomalies = Enumerable.Range(0, workers).Select(_ => new float[source.FrameLength]).ToArray();
+        var reducers = mask is null ? [] : Enumerable.Range(0, workers).Select(_ => new RegionReducer(mask, [RegionStatistic.Mean, RegionStatistic.Valid], plan)).ToArray();
+        var results = Enumerable.Range(0, workers).Select(_ => new double[(mask?.Count ?? 0) * 2]).ToArray();
+        var slots = new int[workers];
+        int regions = mask?.Count ?? 0;
+        var values = new double[regions];
+        var valid = new double[regions];
+        var one = new double[1];
+        int batch = 0, noSlot = 0;
+        Action<int> work = k =>
+        {
+            var t = source.Times[batch + k];
+            int slot = clim.Scheme.SlotOf(t);
+            slots[k] = slot;
+            source.ReadFrame(batch + k, frames[k]);
+            if (slot < 0) Array.Fill(anomalies[k], float.NaN);
+            else Anomaly.Compute(o.Kind, frames[k], clim.MeanOf(slot), clim.StdOf(slot), anomalies[k]);
+            if (mask is not null) reducers[k].Reduce(anomalies[k], results[k]);
+        };
+        using var team = new WorkerTeam(workers);
+        var record = new float[source.FrameLength];
+        for (batch = 0; batch < source.FrameCount; batch += workers)
+        {
+            int n = Math.Min(workers, source.FrameCount - batch);
+            team.Run(n, work);
+            for (int k = 0; k < n; k++)
+            {
+                if (slots[k] < 0) noSlot++;
+                one[0] = source.TimeUnits.Encode(source.Times[batch + k]);
+                w.Writer.WriteRecord<double>(time, batch + k, one);
+                var a = anomalies[k];
+                for (int i = 0; i < a.Length; i++) record[i] = float.IsNaN(a[i]) ? ClimatologyNetCdfWriter.Fill : a[i];
+                w.Writer.WriteRecord<float>(data, batch + k, record);
+                if (series is not null)
+                {
+                    for (int r = 0; r < regions; r++)
+                    {
+                        double v = results[k][2 * r + 1];
+                        valid[r] = v;
+                        values[r] = v > 0 && v >= o.MinValid ? results[k][2 * r] : double.NaN;
+                    }
+                    series.Write(source.Times[batch + k], values, valid);
+                }
+            }
+            progress?.Report((batch + n, source.FrameCount));
+        }
+        return noSlot;
+    }
+}

@@ -1,0 +1,148 @@
+using System.Globalization;
+using GridDrift.Climatology;
+using GridDrift.Conventions.Time;
+using GridDrift.Formats;
+using GridDrift.Formats.Classic;
+using GridDrift.Frames;
+using GridDrift.Outputs;
+using GridDrift.Outputs.Fields;
+
+namespace GridDrift.Pipeline;
+
+public sealed record ClimatologyOptions(
+    IReadOnlyList<string> Inputs,
+    string Variable,
+    ClimatologyKind Kind,
+    string Output,
+    string? Base = null,
+    string? Smooth = null,
+    ClassicVariant? Format = null,
+    string Command = "griddrift climatology",
+    int Workers = 0);
+
+public sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlots, TimePeriod Base, IReadOnlyList<string> Warnings);
+
+/// <summary>
+/// `griddrift climatology`: streams the frames of the base period once, adds each to the
+/// running moments of its slot (in parallel over cells), then writes mean, standard deviation
+/// and count per slot as a CF §7.4 climatology. Memory is the slot state (24 bytes per slot and
+/// cell) plus the frames in flight, whatever the length of the record.
+/// </summary>
+public static class ClimatologyStep
+{
+    public const double NormalYears = 30;
+
+    public static ClimatologySummary Run(ClimatologyOptions o, IProgress<(int Done, int Total)>? progress = null)
+    {
+        using var source = FrameSource.Open(o.Inputs, o.Variable);
+        var warnings = new List<string>(source.Warnings);
+        var calendar = source.Calendar;
+        Smoothing? smoothing = null;
+        if (o.Smooth is { } text)
+        {
+            try { smoothing = Smoothing.Parse(text); }
+            catch (FormatException e) { throw new BadInputException(null, null, e.Message); }
+            if (o.Kind != ClimatologyKind.DayOfYear) throw new BadInputException(null, null, $"--smooth applies to day-of-year climatologies, not to {o.Kind.Name()}");
+        }
+        var basePeriod = BasePeriod(source, o.Base);
+        var used = Enumerable.Range(0, source.FrameCount).Where(i => basePeriod.Contains(source.Times[i])).ToArray();
+        if (used.Length == 0)
+            throw new BadInputException(source.Files[0], o.Variable, $"no time step falls in the base period {basePeriod.ToIsoString()} (the record runs {source.Times[0]} … {source.Times[^1]})");
+        var usedTimes = used.Select(i => source.Times[i]).ToArray();
+        if (o.Kind == ClimatologyKind.HourByMonth && source.Step is not { IsCalendarMonths: false, Micros: > 0 and < CfTime.MicrosPerDay })
+            throw new BadInputException(source.Files[0], o.Variable, $"hour-by-month needs sub-daily data; the record's step is {source.Step?.Describe() ?? "unknown"}");
+        if (basePeriod.Years < NormalYears - 1e-9)
+            warnings.Add($"the base period {basePeriod.ToIsoString()} covers {basePeriod.Years:0.##} years, fewer than the {NormalYears:0} years of a " +
+                "climatological standard normal (WMO-No. 1203, Guidelines on the Calculation of Climate Normals, 2017): treat it as a provisional baseline");
+        var scheme = SlotScheme.For(o.Kind, calendar, usedTimes);
+        var state = new MomentState(scheme.SlotCount, source.FrameLength);
+        Accumulate(source, used, scheme, state, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+
+        var fields = ClimatologyFields.From(state, smoothing);
+        var slots = SlotPeriods.From(scheme, usedTimes, basePeriod, source.Step);
+        int empty = Enumerable.Range(0, scheme.SlotCount).Count(s => !HasData(state, s));
+        if (empty > 0) warnings.Add($"{empty} of {scheme.SlotCount} slots have no sample in the base period: their values are missing");
+        var template = FieldTemplate.From(source);
+        var calendarAttribute = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
+        var globals = Provenance.For(o.Command, source.Files).AsKeyValues(new Dictionary<string, string>
+        {
+            ["title"] = $"Climatology ({o.Kind.Name()}) of {o.Variable}",
+            ["climatology_kind"] = o.Kind.Name(),
+            ["climatology_base_period"] = basePeriod.ToIsoString(),
+            ["climatology_base_years"] = basePeriod.Years.ToString("0.###", CultureInfo.InvariantCulture),
+            ["climatology_frames"] = used.Length.ToString(CultureInfo.InvariantCulture),
+            ["climatology_slots"] = SlotRule(scheme),
+            ["climatology_times_of_day"] = string.Join(" ", scheme.TimesOfDay.Select(t => TimeSpan.FromTicks(t * 10).ToString(@"hh\:mm\:ss", CultureInfo.InvariantCulture))),
+            ["climatology_smoothing"] = smoothing?.Describe() ?? "none",
+            ["climatology_statistics"] = "per slot and cell: mean, population standard deviation (divisor n) and number of valid samples, " +
+                "accumulated in float64 by Welford's update (Welford 1962), mergeable by Chan, Golub & LeVeque (1983)",
+        });
+        ClimatologyNetCdfWriter.Write(o.Output, template, o.Variable, scheme, fields, slots, source.TimeUnits, calendarAttribute, globals, o.Format);
+        return new ClimatologySummary(used.Length, scheme.SlotCount, empty, basePeriod, warnings);
+    }
+
+    static bool HasData(MomentState state, int slot)
+    {
+        var counts = state.Count.AsSpan(slot * state.Cells, state.Cells);
+        foreach (var c in counts) if (c > 0) return true;
+        return false;
+    }
+
+    static string SlotRule(SlotScheme scheme) => scheme.Kind switch
+    {
+        ClimatologyKind.Month => "12 calendar months",
+        ClimatologyKind.DayOfYear when scheme.SlotCount == 366 && scheme.Calendar is not CfCalendar.AllLeap =>
+            "366 days keyed by month and day as in a leap year: 29 February has its own slot, filled by leap years only",
+        ClimatologyKind.DayOfYear => $"{scheme.SlotCount} days of the {scheme.Calendar.CfName()} year",
+        _ => $"12 months x {scheme.TimesOfDay.Count} times of day",
+    };
+
+    /// <summary>--base, else the whole record: its first time up to one step past its last.</summary>
+    static TimePeriod BasePeriod(FrameSource source, string? text)
+    {
+        if (text is not null)
+            try { return TimePeriod.Parse(text, source.Calendar); }
+            catch (FormatException e) { throw new BadInputException(null, null, "--base " + e.Message); }
+        var last = source.Times[^1];
+        var end = source.Step switch
+        {
+            { IsCalendarMonths: true } s => NextMonths(last, s.Months),
+            { Micros: > 0 } s => last.AddMicros(s.Micros),
+            _ => last.AddMicros(1),
+        };
+        return new TimePeriod(source.Times[0], end);
+    }
+
+    static CfTime NextMonths(CfTime t, int months)
+    {
+        long m = t.Month - 1 + months;
+        return CfTime.Of(t.Calendar, t.Year + m / 12, (int)(m % 12) + 1, 1);
+    }
+
+    /// <summary>Reads batches of frames in parallel, then adds them slot by slot with each worker owning a range of cells.</summary>
+    static void Accumulate(FrameSource source, int[] used, SlotScheme scheme, MomentState state, int workers, IProgress<(int, int)>? progress)
+    {
+        int batchSize = 2 * workers;
+        var frames = Enumerable.Range(0, batchSize).Select(_ => new float[source.FrameLength]).ToArray();
+        var slots = new int[batchSize];
+        int cells = source.FrameLength, chunk = (cells + workers - 1) / workers;
+        int start = 0, n = 0;
+        Action<int> read = k => source.ReadFrame(used[start + k], frames[k]);
+        Action<int> add = w =>
+        {
+            int from = w * chunk, length = Math.Min(chunk, cells - from);
+            if (length <= 0) return;
+            for (int k = 0; k < n; k++)
+                if (slots[k] >= 0) state.Add(slots[k], from, frames[k].AsSpan(from, length));
+        };
+        using var team = new WorkerTeam(workers);
+        for (start = 0; start < used.Length; start += batchSize)
+        {
+            n = Math.Min(batchSize, used.Length - start);
+            for (int k = 0; k < n; k++) slots[k] = scheme.SlotOf(source.Times[used[start + k]]);
+            team.Run(n, read);
+            team.Run(workers, add);
+            progress?.Report((start + n, used.Length));
+        }
+    }
+}
