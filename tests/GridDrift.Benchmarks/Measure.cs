@@ -13,9 +13,10 @@ internal static class Measure
         return double.NaN;
     }
 
-    public static string Run(string file, string arguments)
+    public static string Run(string file, string arguments, IReadOnlyDictionary<string, string>? environment = null)
     {
         var info = new ProcessStartInfo(file, arguments) { RedirectStandardOutput = true, RedirectStandardError = true };
+        foreach (var (k, v) in environment ?? new Dictionary<string, string>()) info.Environment[k] = v;
         info.Environment.Remove("PYTHONPATH");
         using var p = Process.Start(info)!;
         string output = p.StandardOutput.ReadToEnd();

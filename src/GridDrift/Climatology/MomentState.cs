@@ -1,4 +1,5 @@
 using System.Runtime.Intrinsics;
+using GridDrift.Frames;
 
 namespace GridDrift.Climatology;
 
@@ -6,17 +7,19 @@ namespace GridDrift.Climatology;
 /// Count, mean and sum of squared deviations (M2) per slot and cell, in float64: the running
 /// update of Welford (1962, Technometrics 4(3): 419) for each new value, and the pairwise
 /// combination of Chan, Golub &amp; LeVeque (1979; The American Statistician 37(3): 242, 1983)
-/// to merge two partial states of disjoint samples. Partial states of disjoint periods (or of
+/// to merge two partial states of disjoint samples (and a batch of frames into the state). Partial states of disjoint periods (or of
 /// shards of one record) therefore merge into the state of them all.
 /// Layout: slot-major, slot s of cell c at s × Cells + c.
 /// </summary>
-public sealed class MomentState
+public sealed class MomentState : IClimatologySlots, IDisposable
 {
+    readonly LargeBuffer<double> _count, _mean, _m2;
+
     public int Slots { get; }
     public int Cells { get; }
-    public double[] Count { get; }
-    public double[] Mean { get; }
-    public double[] M2 { get; }
+    public Span<double> Count => _count.Span;
+    public Span<double> Mean => _mean.Span;
+    public Span<double> M2 => _m2.Span;
 
     public MomentState(int slots, int cells)
     {
@@ -24,9 +27,16 @@ public sealed class MomentState
         Cells = cells;
         long n = (long)slots * cells;
         if (n > Array.MaxLength) throw new ArgumentOutOfRangeException(nameof(cells), $"{slots} slots × {cells} cells is too many for one state");
-        Count = new double[n];
-        Mean = new double[n];
-        M2 = new double[n];
+        _count = new LargeBuffer<double>(n);
+        _mean = new LargeBuffer<double>(n);
+        _m2 = new LargeBuffer<double>(n);
+    }
+
+    public void Dispose()
+    {
+        _count.Dispose();
+        _mean.Dispose();
+        _m2.Dispose();
     }
 
     /// <summary>Adds a frame's values for cells [start, start + values.Length) to one slot; NaN values are skipped.</summary>
@@ -34,7 +44,7 @@ public sealed class MomentState
     public void Add(int slot, int start, ReadOnlySpan<float> values)
     {
         int offset = slot * Cells + start, n = values.Length, i = 0;
-        var count = Count.AsSpan(offset, n); var mean = Mean.AsSpan(offset, n); var m2 = M2.AsSpan(offset, n);
+        var count = Count.Slice(offset, n); var mean = Mean.Slice(offset, n); var m2 = M2.Slice(offset, n);
         if (Vector256.IsHardwareAccelerated)
         {
             var one = Vector256.Create(1.0);
@@ -56,6 +66,107 @@ public sealed class MomentState
         }
     }
 
+    /// <summary>
+    /// Adds several frames (frame f at f × Cells in <paramref name="frames"/>) to one slot for cells [start, start + length). The frames' own count, mean
+    /// and M2 come from one pass of sums of d and d² with d = x − K, shifted by K = the state's
+    /// running mean (or the first frame's value where the state is empty), so the sums stay small
+    /// and keep their digits (the shifted-data algorithm; Chan, Golub &amp; LeVeque 1983, §3); they
+    /// are then merged into the state by the Chan et al. update. One division per cell per call
+    /// instead of one per frame, and the state read and written once per call: a diurnal
+    /// climatology's state is far larger than the caches, and its slots recur only daily.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public void AddFrames(int slot, int start, int length, ReadOnlySpan<float> frames, ReadOnlySpan<int> members)
+    {
+        if (members.Length == 1)
+        {
+            Add(slot, start, frames.Slice(members[0] * Cells + start, length));
+            return;
+        }
+        const int BlockCells = 2048;
+        Span<double> bn = stackalloc double[BlockCells], s1 = stackalloc double[BlockCells], s2 = stackalloc double[BlockCells], shift = stackalloc double[BlockCells];
+        for (int block = 0; block < length; block += BlockCells)
+        {
+            int n = Math.Min(BlockCells, length - block), from = start + block;
+            int at = slot * Cells + from;
+            var cn = bn[..n]; var c1 = s1[..n]; var c2 = s2[..n]; var k = shift[..n];
+            cn.Clear(); c1.Clear(); c2.Clear();
+            var first = frames.Slice(members[0] * Cells, Cells);
+            for (int i = 0; i < n; i++)
+            {
+                double x = first[from + i];
+                k[i] = Count[at + i] > 0 ? Mean[at + i] : double.IsNaN(x) ? 0 : x;
+            }
+            foreach (int f in members) SumShifted(frames.Slice(f * Cells + from, n), k, cn, c1, c2);
+            BatchMoments(cn, k, c1, c2);
+            MergeBatch(Count.Slice(at, n), Mean.Slice(at, n), M2.Slice(at, n), cn, c1, c2);
+        }
+    }
+
+    /// <summary>count += valid; s1 += d; s2 += d² with d = x − shift, NaN values left out.</summary>
+    static void SumShifted(ReadOnlySpan<float> x, ReadOnlySpan<double> shift, Span<double> count, Span<double> s1, Span<double> s2)
+    {
+        int i = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var one = Vector256.Create(1.0);
+            for (; i + 4 <= x.Length; i += 4)
+            {
+                var v = Vector256.WidenLower(Vector128.Create(x.Slice(i, 4)).ToVector256Unsafe());
+                var valid = Vector256.Equals(v, v);
+                var d = (v - Vector256.Create(shift.Slice(i, 4))) & valid;
+                (Vector256.Create(count.Slice(i, 4)) + (one & valid)).CopyTo(count.Slice(i, 4));
+                (Vector256.Create(s1.Slice(i, 4)) + d).CopyTo(s1.Slice(i, 4));
+                (Vector256.Create(s2.Slice(i, 4)) + d * d).CopyTo(s2.Slice(i, 4));
+            }
+        }
+        for (; i < x.Length; i++)
+            if (!float.IsNaN(x[i])) { double d = x[i] - shift[i]; count[i]++; s1[i] += d; s2[i] += d * d; }
+    }
+
+    /// <summary>Shifted sums → the batch's mean (into s1) and M2 (into s2); cells without values keep zeros.</summary>
+    static void BatchMoments(ReadOnlySpan<double> count, ReadOnlySpan<double> shift, Span<double> s1, Span<double> s2)
+    {
+        for (int i = 0; i < count.Length; i++)
+        {
+            double n = count[i];
+            if (n == 0) { s1[i] = 0; s2[i] = 0; continue; }
+            double mean = s1[i] / n;
+            s2[i] = Math.Max(0, s2[i] - s1[i] * mean);
+            s1[i] = shift[i] + mean;
+        }
+    }
+
+    /// <summary>The Chan et al. merge of a batch's (count, mean, M2) into the state's, four cells at a time.</summary>
+    static void MergeBatch(Span<double> count, Span<double> mean, Span<double> m2, ReadOnlySpan<double> bn, ReadOnlySpan<double> bmean, ReadOnlySpan<double> bm2)
+    {
+        int i = 0;
+        if (Vector256.IsHardwareAccelerated)
+            for (; i + 4 <= count.Length; i += 4)
+            {
+                var nb = Vector256.Create(bn.Slice(i, 4));
+                var has = Vector256.GreaterThan(nb, Vector256<double>.Zero);
+                var na = Vector256.Create(count.Slice(i, 4)); var ma = Vector256.Create(mean.Slice(i, 4)); var qa = Vector256.Create(m2.Slice(i, 4));
+                var total = na + nb;
+                var share = nb / total; // NaN only where both counts are 0, and then not used
+                var delta = Vector256.Create(bmean.Slice(i, 4)) - ma;
+                Vector256.ConditionalSelect(has, total, na).CopyTo(count.Slice(i, 4));
+                Vector256.ConditionalSelect(has, ma + delta * share, ma).CopyTo(mean.Slice(i, 4));
+                Vector256.ConditionalSelect(has, qa + Vector256.Create(bm2.Slice(i, 4)) + delta * delta * (na * share), qa).CopyTo(m2.Slice(i, 4));
+            }
+        for (; i < count.Length; i++)
+        {
+            double nb = bn[i];
+            if (nb == 0) continue;
+            double na = count[i], total = na + nb, delta = bmean[i] - mean[i];
+            mean[i] += delta * (nb / total);
+            m2[i] += bm2[i] + delta * delta * (na * nb / total);
+            count[i] = total;
+        }
+    }
+
+
+
     static void Update(Vector256<double> x, Span<double> count, Span<double> mean, Span<double> m2, Vector256<double> one)
     {
         var valid = Vector256.Equals(x, x);
@@ -73,24 +184,22 @@ public sealed class MomentState
     public void Merge(MomentState other)
     {
         if (other.Slots != Slots || other.Cells != Cells) throw new ArgumentException("states differ in shape", nameof(other));
-        for (long i = 0; i < Count.LongLength; i++)
-        {
-            double na = Count[i], nb = other.Count[i];
-            if (nb == 0) continue;
-            if (na == 0)
-            {
-                Count[i] = nb; Mean[i] = other.Mean[i]; M2[i] = other.M2[i];
-                continue;
-            }
-            double n = na + nb, delta = other.Mean[i] - Mean[i];
-            Mean[i] += delta * (nb / n);
-            M2[i] += other.M2[i] + delta * delta * (na * nb / n);
-            Count[i] = n;
-        }
+        MergeBatch(Count, Mean, M2, other.Count, other.Mean, other.M2);
     }
 
     /// <summary>Population standard deviation √(M2 / n) (numpy's default ddof = 0); NaN without data.</summary>
-    public double StandardDeviation(long index) => Count[index] > 0 ? Math.Sqrt(Math.Max(0, M2[index]) / Count[index]) : double.NaN;
+    public double StandardDeviation(int index) => Count[index] > 0 ? Math.Sqrt(Math.Max(0, M2[index]) / Count[index]) : double.NaN;
 
-    public double MeanOrNaN(long index) => Count[index] > 0 ? Mean[index] : double.NaN;
+    public void Fill(int slot, Span<float> mean, Span<float> std, Span<float> count)
+    {
+        int at = slot * Cells;
+        for (int i = 0; i < Cells; i++)
+        {
+            mean[i] = (float)MeanOrNaN(at + i);
+            std[i] = (float)StandardDeviation(at + i);
+            count[i] = (float)Count[at + i];
+        }
+    }
+
+    public double MeanOrNaN(int index) => Count[index] > 0 ? Mean[index] : double.NaN;
 }

@@ -10,8 +10,9 @@ public sealed record Provenance(string Command, IReadOnlyList<string> Inputs, IR
         typeof(Provenance).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion.Split('+')[0] ?? "0.0.0";
 
     public static Provenance For(string command, IReadOnlyList<string> inputs) =>
-        new(command, inputs, inputs.Select(Sha256).ToList(), DateTime.UtcNow);
+        new(command, inputs, inputs.Select(ChecksumCache.Sha256).ToList(), DateTime.UtcNow);
 
+    /// <summary>The SHA-256 of a file's bytes, always computed.</summary>
     public static string Sha256(string path)
     {
         using var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 20);

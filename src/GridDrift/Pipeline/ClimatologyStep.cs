@@ -54,8 +54,10 @@ public static class ClimatologyStep
         if (basePeriod.Years < NormalYears - 1e-9)
             warnings.Add($"the base period {basePeriod.ToIsoString()} covers {basePeriod.Years:0.##} years, fewer than the {NormalYears:0} years of a " +
                 "climatological standard normal (WMO-No. 1203, Guidelines on the Calculation of Climate Normals, 2017): treat it as a provisional baseline");
+        // the input checksums take a core-second per gigabyte: hash while the frames stream
+        var provenance = Task.Run(() => Provenance.For(o.Command, source.Files));
         var scheme = SlotScheme.For(o.Kind, calendar, usedTimes);
-        var state = new MomentState(scheme.SlotCount, source.FrameLength);
+        using var state = new MomentState(scheme.SlotCount, source.FrameLength);
         Accumulate(source, used, scheme, state, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
 
         var fields = ClimatologyFields.From(state, smoothing);
@@ -64,7 +66,7 @@ public static class ClimatologyStep
         if (empty > 0) warnings.Add($"{empty} of {scheme.SlotCount} slots have no sample in the base period: their values are missing");
         var template = FieldTemplate.From(source);
         var calendarAttribute = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
-        var globals = Provenance.For(o.Command, source.Files).AsKeyValues(new Dictionary<string, string>
+        var globals = provenance.GetAwaiter().GetResult().AsKeyValues(new Dictionary<string, string>
         {
             ["title"] = $"Climatology ({o.Kind.Name()}) of {o.Variable}",
             ["climatology_kind"] = o.Kind.Name(),
@@ -83,7 +85,7 @@ public static class ClimatologyStep
 
     static bool HasData(MomentState state, int slot)
     {
-        var counts = state.Count.AsSpan(slot * state.Cells, state.Cells);
+        var counts = state.Count.Slice(slot * state.Cells, state.Cells);
         foreach (var c in counts) if (c > 0) return true;
         return false;
     }
@@ -119,29 +121,53 @@ public static class ClimatologyStep
         return CfTime.Of(t.Calendar, t.Year + m / 12, (int)(m % 12) + 1, 1);
     }
 
-    /// <summary>Reads batches of frames in parallel, then adds them slot by slot with each worker owning a range of cells.</summary>
+    /// <summary>Frames held at once: enough that a diurnal slot recurs a few times within a batch, never more than 256 MiB.</summary>
+    static int BatchSize(int frameLength, int workers) => Math.Clamp((int)(256L * 1024 * 1024 / (4L * frameLength)), 2 * workers, 384);
+
+    /// <summary>
+    /// Reads a batch of frames in parallel, groups them by slot (in time order within a slot), then
+    /// adds each group to its slot with each worker owning a range of cells.
+    /// </summary>
     static void Accumulate(FrameSource source, int[] used, SlotScheme scheme, MomentState state, int workers, IProgress<(int, int)>? progress)
     {
-        int batchSize = 2 * workers;
-        var frames = Enumerable.Range(0, batchSize).Select(_ => new float[source.FrameLength]).ToArray();
+        int batchSize = BatchSize(source.FrameLength, workers);
+        using var frames = new LargeBuffer<float>((long)batchSize * source.FrameLength);
         var slots = new int[batchSize];
-        int cells = source.FrameLength, chunk = (cells + workers - 1) / workers;
-        int start = 0, n = 0;
-        Action<int> read = k => source.ReadFrame(used[start + k], frames[k]);
+        var order = new int[batchSize];
+        var groupStart = new int[batchSize + 1];
+        // many more pieces than workers: a worker slowed by another thread (the checksum) does not hold up the batch
+        int cells = source.FrameLength, pieces = Math.Min(cells, 16 * workers), chunk = (cells + pieces - 1) / pieces;
+        int start = 0, n = 0, groups = 0;
+        Action<int> read = k => source.ReadFrame(used[start + k], frames.Span.Slice(k * cells, cells));
         Action<int> add = w =>
         {
             int from = w * chunk, length = Math.Min(chunk, cells - from);
             if (length <= 0) return;
-            for (int k = 0; k < n; k++)
-                if (slots[k] >= 0) state.Add(slots[k], from, frames[k].AsSpan(from, length));
+            for (int g = 0; g < groups; g++)
+            {
+                int slot = slots[order[groupStart[g]]];
+                if (slot >= 0) state.AddFrames(slot, from, length, frames.Span, order.AsSpan(groupStart[g], groupStart[g + 1] - groupStart[g]));
+            }
         };
         using var team = new WorkerTeam(workers);
         for (start = 0; start < used.Length; start += batchSize)
         {
             n = Math.Min(batchSize, used.Length - start);
+            for (int k = 0; k < n; k++)
+            {
+                slots[k] = scheme.SlotOf(source.Times[used[start + k]]);
+                order[k] = k;
+            }
+            Array.Sort(slots, order, 0, n); // sorts the slots too: restore them below
+            groups = 0;
+            for (int k = 0; k < n; k++)
+                if (k == 0 || slots[k] != slots[k - 1]) groupStart[groups++] = k;
+            groupStart[groups] = n;
             for (int k = 0; k < n; k++) slots[k] = scheme.SlotOf(source.Times[used[start + k]]);
+            // Array.Sort is not stable: put each group back in time order
+            for (int g = 0; g < groups; g++) Array.Sort(order, groupStart[g], groupStart[g + 1] - groupStart[g]);
             team.Run(n, read);
-            team.Run(workers, add);
+            team.Run(pieces, add);
             progress?.Report((start + n, used.Length));
         }
     }

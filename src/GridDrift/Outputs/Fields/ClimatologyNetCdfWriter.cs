@@ -20,10 +20,11 @@ public static class ClimatologyNetCdfWriter
 {
     public const float Fill = 9.96921e36f; // netCDF's default float fill (NC_FILL_FLOAT)
 
-    public static void Write(string path, FieldTemplate template, string variable, SlotScheme scheme, ClimatologyFields fields, SlotTimes slots,
+    public static void Write(string path, FieldTemplate template, string variable, SlotScheme scheme, IClimatologySlots fields, SlotTimes slots,
         TimeUnits units, string calendarAttribute, IReadOnlyDictionary<string, string> globals, ClassicVariant? format)
     {
-        using var w = new FieldNetCdfWriter(path, template, fields.Slots, format, globals);
+        // time is the record dimension so the slots are written one by one, without a copy of the whole climatology
+        using var w = new FieldNetCdfWriter(path, template, -1, format, globals);
         var nv = w.AddDimension("nv", 2);
         var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
         [
@@ -40,42 +41,43 @@ public static class ClimatologyNetCdfWriter
         string? standardName = template.DataAttribute("standard_name");
         string units0 = template.DataAttribute("units") ?? "1";
         var common = template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping").ToList();
-        var mean = w.Writer.AddVariable(variable, NcType.Float, dims, template.DataAttributes.Where(a => a.Name != "long_name")
+        var meanVar = w.Writer.AddVariable(variable, NcType.Float, dims, template.DataAttributes.Where(a => a.Name != "long_name")
             .Append(NcAttribute.Text("long_name", $"climatological mean of {template.DataAttribute("long_name") ?? variable}"))
             .Append(NcAttribute.Text("cell_methods", Methods("mean", "mean")))
             .Append(NcAttribute.Text("ancillary_variables", $"{variable}_std {variable}_count"))
             .Append(NcAttribute.Of("_FillValue", Fill)));
-        var std = w.Writer.AddVariable(variable + "_std", NcType.Float, dims, common
+        var stdVar = w.Writer.AddVariable(variable + "_std", NcType.Float, dims, common
             .Concat(standardName is null ? [] : new[] { NcAttribute.Text("standard_name", standardName) })
             .Append(NcAttribute.Text("long_name", $"climatological standard deviation of {variable}"))
             .Append(NcAttribute.Text("units", units0))
             .Append(NcAttribute.Text("cell_methods", Methods("standard_deviation", "standard_deviation") +
                 " (comment: population standard deviation of all samples of the slot, pooled over the base period)"))
             .Append(NcAttribute.Of("_FillValue", Fill)));
-        var count = w.Writer.AddVariable(variable + "_count", NcType.Float, dims, common
+        var countVar = w.Writer.AddVariable(variable + "_count", NcType.Float, dims, common
             .Concat(standardName is null ? [] : new[] { NcAttribute.Text("standard_name", standardName + " number_of_observations") })
             .Append(NcAttribute.Text("long_name", $"number of valid samples of {variable} in the slot"))
             .Append(NcAttribute.Text("units", "1"))
             .Append(NcAttribute.Text("cell_methods", Methods("sum", "sum"))));
         w.EndDefinitions();
 
-        w.Writer.Write<double>(time, slots.Times.Select(units.Encode).ToArray());
-        var b = new double[2 * fields.Slots];
+        var mean = new float[fields.Cells];
+        var std = new float[fields.Cells];
+        var count = new float[fields.Cells];
         for (int s = 0; s < fields.Slots; s++)
         {
-            b[2 * s] = units.Encode(slots.BoundsStart[s]);
-            b[2 * s + 1] = units.Encode(slots.BoundsEnd[s]);
+            w.Writer.WriteRecord<double>(time, s, [units.Encode(slots.Times[s])]);
+            w.Writer.WriteRecord<double>(bounds, s, [units.Encode(slots.BoundsStart[s]), units.Encode(slots.BoundsEnd[s])]);
+            fields.Fill(s, mean, std, count);
+            w.Writer.WriteRecord<float>(meanVar, s, Filled(mean));
+            w.Writer.WriteRecord<float>(stdVar, s, Filled(std));
+            w.Writer.WriteRecord<float>(countVar, s, count);
         }
-        w.Writer.Write<double>(bounds, b);
-        w.Writer.Write<float>(mean, Filled(fields.Mean));
-        w.Writer.Write<float>(std, Filled(fields.Std));
-        w.Writer.Write<float>(count, fields.Count);
         w.Commit();
     }
 
     static float[] Filled(float[] values)
     {
-        for (long i = 0; i < values.LongLength; i++) if (float.IsNaN(values[i])) values[i] = Fill;
+        for (int i = 0; i < values.Length; i++) if (float.IsNaN(values[i])) values[i] = Fill;
         return values;
     }
 }

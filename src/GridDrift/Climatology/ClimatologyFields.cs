@@ -2,12 +2,21 @@ using MathNet.Numerics.LinearAlgebra;
 
 namespace GridDrift.Climatology;
 
+/// <summary>A finished climatology, handed out one slot at a time: mean, population standard deviation and sample count per cell.</summary>
+public interface IClimatologySlots
+{
+    int Slots { get; }
+    int Cells { get; }
+    /// <summary>Writes one slot; NaN where there is no value.</summary>
+    void Fill(int slot, Span<float> mean, Span<float> std, Span<float> count);
+}
+
 /// <summary>
-/// The finished climatology per slot and cell: mean, population standard deviation and the
-/// number of samples, float32 for storage (slot-major, like <see cref="MomentState"/>), with the
-/// optional smoothing of day-of-year climatologies.
+/// A smoothed day-of-year climatology per slot and cell, float32 for storage (slot-major, like
+/// <see cref="MomentState"/>). Without smoothing the state itself hands out its slots, so no
+/// second copy of the climatology is made.
 /// </summary>
-public sealed class ClimatologyFields
+public sealed class ClimatologyFields : IClimatologySlots
 {
     public int Slots { get; }
     public int Cells { get; }
@@ -24,25 +33,24 @@ public sealed class ClimatologyFields
         Count = new float[(long)slots * cells];
     }
 
-    public static ClimatologyFields From(MomentState state, Smoothing? smoothing = null)
+    public static IClimatologySlots From(MomentState state, Smoothing? smoothing = null)
     {
+        if (smoothing is null) return state;
         var f = new ClimatologyFields(state.Slots, state.Cells);
-        switch (smoothing)
+        if (smoothing is Smoothing.Window w) f.PoolWindow(state, w.Days);
+        else if (smoothing is Smoothing.Harmonics h)
         {
-            case Smoothing.Window w:
-                f.PoolWindow(state, w.Days);
-                break;
-            default:
-                for (long i = 0; i < f.Mean.LongLength; i++)
-                {
-                    f.Mean[i] = (float)state.MeanOrNaN(i);
-                    f.Std[i] = (float)state.StandardDeviation(i);
-                    f.Count[i] = (float)state.Count[i];
-                }
-                if (smoothing is Smoothing.Harmonics h) f.FitHarmonics(state, h.Count);
-                break;
+            for (int s = 0; s < f.Slots; s++) state.Fill(s, f.Mean.AsSpan(s * f.Cells, f.Cells), f.Std.AsSpan(s * f.Cells, f.Cells), f.Count.AsSpan(s * f.Cells, f.Cells));
+            f.FitHarmonics(state, h.Count);
         }
         return f;
+    }
+
+    public void Fill(int slot, Span<float> mean, Span<float> std, Span<float> count)
+    {
+        Mean.AsSpan(slot * Cells, Cells).CopyTo(mean);
+        Std.AsSpan(slot * Cells, Cells).CopyTo(std);
+        Count.AsSpan(slot * Cells, Cells).CopyTo(count);
     }
 
     /// <summary>
@@ -75,7 +83,7 @@ public sealed class ClimatologyFields
             int filled = 0;
             for (int s = 0; s < slots; s++)
             {
-                weights[s] = state.Count[(long)s * Cells + c];
+                weights[s] = state.Count[s * Cells + c];
                 if (weights[s] > 0) filled++;
             }
             if (filled < p)
@@ -98,7 +106,7 @@ public sealed class ClimatologyFields
             for (int s = 0; s < slots; s++)
             {
                 if (weights[s] <= 0) continue;
-                long at = (long)s * Cells + c;
+                int at = s * Cells + c;
                 double m = state.Mean[at], sd = state.StandardDeviation(at);
                 for (int i = 0; i < p; i++)
                 {
@@ -133,7 +141,7 @@ public sealed class ClimatologyFields
                 double n = 0, mean = 0, m2 = 0;
                 for (int k = -half; k <= half; k++)
                 {
-                    long at = (long)(((s + k) % slots + slots) % slots) * Cells + c;
+                    int at = ((s + k) % slots + slots) % slots * Cells + c;
                     double nb = state.Count[at];
                     if (nb == 0) continue;
                     double total = n + nb, delta = state.Mean[at] - mean;
@@ -141,7 +149,7 @@ public sealed class ClimatologyFields
                     m2 += state.M2[at] + delta * delta * (n * nb / total);
                     n = total;
                 }
-                long i = (long)s * Cells + c;
+                int i = s * Cells + c;
                 Mean[i] = n > 0 ? (float)mean : float.NaN;
                 Std[i] = n > 0 ? (float)Math.Sqrt(Math.Max(0, m2) / n) : float.NaN;
                 Count[i] = (float)n;

@@ -1,0 +1,92 @@
+using System.Globalization;
+
+namespace GridDrift.Outputs;
+
+/// <summary>
+/// Input checksums remembered between runs: hashing costs about a core-second per gigabyte,
+/// and a record is usually analysed by several commands in a row. An entry is keyed by the
+/// file's full path, size and last-write time (UTC ticks) and is used only while all three
+/// still match, the way build tools decide a file is unchanged. The cache is one appended
+/// text file, $XDG_CACHE_HOME/griddrift/sha256.tsv (else ~/.cache/griddrift/sha256.tsv);
+/// GRIDDRIFT_CHECKSUM_CACHE=off turns it off, and any failure to read or write it only means
+/// the checksum is computed.
+/// </summary>
+public static class ChecksumCache
+{
+    static readonly object Gate = new();
+    const long MaxBytes = 2 << 20;
+
+    public static bool Enabled => !string.Equals(Environment.GetEnvironmentVariable("GRIDDRIFT_CHECKSUM_CACHE"), "off", StringComparison.OrdinalIgnoreCase);
+
+    static string? CachePath()
+    {
+        string? root = Environment.GetEnvironmentVariable("XDG_CACHE_HOME");
+        if (string.IsNullOrEmpty(root))
+        {
+            string home = Environment.GetFolderPath(Environment.SpecialFolder.UserProfile);
+            if (string.IsNullOrEmpty(home)) return null;
+            root = Path.Combine(home, ".cache");
+        }
+        return Path.Combine(root, "griddrift", "sha256.tsv");
+    }
+
+    public static string Sha256(string path)
+    {
+        var info = new FileInfo(path);
+        if (!Enabled || !info.Exists) return Provenance.Sha256(path);
+        string key = string.Join('\t', Path.GetFullPath(path), info.Length.ToString(CultureInfo.InvariantCulture),
+            info.LastWriteTimeUtc.Ticks.ToString(CultureInfo.InvariantCulture));
+        string? cache = CachePath();
+        if (cache is not null && Lookup(cache, key) is { } known) return known;
+        string sum = Provenance.Sha256(path);
+        if (cache is not null) Remember(cache, key, sum);
+        return sum;
+    }
+
+    static string? Lookup(string cache, string key)
+    {
+        try
+        {
+            if (!File.Exists(cache)) return null;
+            string? found = null;
+            foreach (var line in File.ReadLines(cache))
+                if (line.Length > 65 && line[64] == '\t' && line.AsSpan(65).SequenceEqual(key)) found = line[..64];
+            return found;
+        }
+        catch (IOException) { return null; }
+        catch (UnauthorizedAccessException) { return null; }
+    }
+
+    /// <summary>Keeps the newest entry of each file that still exists unchanged; written aside and renamed.</summary>
+    static void Compact(string cache)
+    {
+        var newest = new Dictionary<string, string>();
+        foreach (var line in File.ReadLines(cache))
+        {
+            var parts = line.Split('\t');
+            if (parts.Length != 4) continue;
+            var info = new FileInfo(parts[1]);
+            if (info.Exists && info.Length.ToString(CultureInfo.InvariantCulture) == parts[2]
+                && info.LastWriteTimeUtc.Ticks.ToString(CultureInfo.InvariantCulture) == parts[3]) newest[parts[1]] = line;
+        }
+        string temp = cache + "." + Environment.ProcessId + ".part";
+        File.WriteAllLines(temp, newest.Values);
+        File.Move(temp, cache, overwrite: true);
+    }
+
+    static void Remember(string cache, string key, string sum)
+    {
+        try
+        {
+            lock (Gate)
+            {
+                Directory.CreateDirectory(Path.GetDirectoryName(cache)!);
+                if (File.Exists(cache) && new FileInfo(cache).Length > MaxBytes) Compact(cache);
+                // one short appended line per entry: appends of this size do not interleave between processes
+                File.AppendAllText(cache, sum + "\t" + key + "\n");
+            }
+        }
+        catch (IOException) { }
+        catch (UnauthorizedAccessException) { }
+    }
+}

@@ -1,0 +1,36 @@
+using GridDrift.Outputs;
+using GridDrift.Tests.Support;
+
+namespace GridDrift.Tests.Outputs;
+
+public class ChecksumCacheTests
+{
+    // FIPS 180-2, appendix B.1: SHA-256("abc")
+    const string Abc = "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad";
+
+    [Fact]
+    public void A_remembered_checksum_is_used_only_while_the_file_is_unchanged()
+    {
+        using var dir = new TempFolder();
+        string previous = Environment.GetEnvironmentVariable("XDG_CACHE_HOME") ?? "";
+        try
+        {
+            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", dir.File("cache"));
+            string path = dir.File("input.nc");
+            File.WriteAllText(path, "abc");
+            Assert.Equal(Abc, ChecksumCache.Sha256(path));
+            Assert.True(File.Exists(dir.File("cache/griddrift/sha256.tsv")), "the checksum is remembered");
+            Assert.Equal(Abc, ChecksumCache.Sha256(path));
+
+            // same size, new content and a later write time: the remembered value must not be used
+            File.WriteAllText(path, "abd");
+            File.SetLastWriteTimeUtc(path, DateTime.UtcNow.AddMinutes(1));
+            string fresh = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData("abd"u8));
+            Assert.Equal(fresh, ChecksumCache.Sha256(path));
+        }
+        finally
+        {
+            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", previous == "" ? null : previous);
+        }
+    }
+}
