@@ -16,11 +16,13 @@ public static class ExternalTools
     static readonly Lazy<bool> HasNcgenLazy = new(() => Runs("ncgen", "-h", acceptAnyExit: true));
     static readonly Lazy<bool> HasPythonNetcdfLazy = new(() => Runs(Python, "-c \"import netCDF4, numpy\""));
     static readonly Lazy<bool> HasPythonScipyLazy = new(() => Runs(Python, "-c \"import scipy, numpy\""));
+    static readonly Lazy<bool> HasPythonStatsmodelsLazy = new(() => Runs(Python, "-c \"import statsmodels, scipy, numpy\""));
 
     public static bool HasNcdump => HasNcdumpLazy.Value;
     public static bool HasNcgen => HasNcgenLazy.Value;
     public static bool HasPythonNetcdf => HasPythonNetcdfLazy.Value;
     public static bool HasPythonScipy => HasPythonScipyLazy.Value;
+    public static bool HasPythonStatsmodels => HasPythonStatsmodelsLazy.Value;
 
     public static bool InteropRequired => Environment.GetEnvironmentVariable("GRIDDRIFT_REQUIRE_INTEROP") == "1";
 

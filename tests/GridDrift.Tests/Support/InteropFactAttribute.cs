@@ -11,6 +11,7 @@ public enum Needs
     PythonScipy = 8,
     SharedData = 16,
     Fonts = 32,
+    PythonStatsmodels = 64,
 }
 
 /// <summary>
@@ -31,6 +32,7 @@ public sealed class InteropFactAttribute : FactAttribute
         if (needs.HasFlag(Needs.Ncgen) && !ExternalTools.HasNcgen) missing.Add("ncgen (apt-get install netcdf-bin)");
         if (needs.HasFlag(Needs.PythonNetcdf) && !ExternalTools.HasPythonNetcdf) missing.Add("python netCDF4 (apt-get install python3-netcdf4 python3-numpy)");
         if (needs.HasFlag(Needs.PythonScipy) && !ExternalTools.HasPythonScipy) missing.Add("scipy (apt-get install python3-scipy)");
+        if (needs.HasFlag(Needs.PythonStatsmodels) && !ExternalTools.HasPythonStatsmodels) missing.Add("statsmodels (apt-get install python3-statsmodels)");
         if (needs.HasFlag(Needs.SharedData) && SharedData.Root is null) missing.Add("the ../shared folder beside the checkout");
         if (needs.HasFlag(Needs.Fonts) && !HasFont()) missing.Add("a TrueType font for plot labels (apt-get install fonts-dejavu-core)");
         return missing.Count == 0 ? null : "skipped: needs " + string.Join(", ", missing);

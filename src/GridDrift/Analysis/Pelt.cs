@@ -1,0 +1,93 @@
+namespace GridDrift.Analysis;
+
+/// <summary>What changes between the segments PELT looks for.</summary>
+public enum SegmentCost
+{
+    /// <summary>Gaussian, known variance: Σ (x − x̄_seg)² / σ², σ estimated robustly from the whole series.</summary>
+    Mean,
+    /// <summary>Gaussian, both free: n_seg · ln σ̂²_seg (σ̂² the segment's ML variance, floored).</summary>
+    MeanAndVariance,
+}
+
+/// <summary>
+/// Pruned exact linear time search for multiple change points (Killick, Fearnhead &amp; Eckley
+/// 2012, JASA 107: 1590): F(t) = min_τ F(τ) + C(x_{τ+1..t}) + β over admissible τ, pruning
+/// every τ with F(τ) + C(x_{τ+1..t}) > F(t) (the costs here satisfy the paper's condition
+/// with K = 0). Costs are twice the negative Gaussian log-likelihood (constants dropped) from
+/// prefix sums. The default penalty is the BIC's, β = p · ln n per change, with p the parameters
+/// each new segment adds: its location and its mean (p = 2 for <see cref="SegmentCost.Mean"/>), and
+/// its variance too (p = 3 for <see cref="SegmentCost.MeanAndVariance"/>);
+/// segments are at least <c>minSegment</c> long. The robust σ for the mean cost is
+/// 1.4826 · MAD(first differences) / √2, which a shift in the mean barely moves.
+/// </summary>
+public static class Pelt
+{
+    /// <returns>0-based indices of the first value of each new segment, ascending.</returns>
+    public static int[] Detect(ReadOnlySpan<double> x, SegmentCost cost, double? penalty = null, int minSegment = 10)
+    {
+        int n = x.Length;
+        minSegment = Math.Max(cost == SegmentCost.MeanAndVariance ? 2 : 1, minSegment);
+        if (n < 2 * minSegment) return [];
+        int p = cost == SegmentCost.Mean ? 2 : 3;
+        double beta = penalty ?? p * Math.Log(n);
+        var s1 = new double[n + 1];
+        var s2 = new double[n + 1];
+        for (int i = 0; i < n; i++)
+        {
+            s1[i + 1] = s1[i] + x[i];
+            s2[i + 1] = s2[i] + x[i] * x[i];
+        }
+        double sigma2 = cost == SegmentCost.Mean ? Math.Pow(RobustNoise(x), 2) : 0;
+        if (cost == SegmentCost.Mean && !(sigma2 > 0)) return [];
+        double totalVariance = (s2[n] - s1[n] * s1[n] / n) / n;
+        double floor = Math.Max(1e-12 * Math.Max(totalVariance, 1e-300), 1e-300);
+
+        double Cost(int a, int b) // segment x[a..b)
+        {
+            int m = b - a;
+            double sum = s1[b] - s1[a], sq = s2[b] - s2[a];
+            double ss = Math.Max(0, sq - sum * sum / m);
+            return cost == SegmentCost.Mean ? ss / sigma2 : m * Math.Log(Math.Max(ss / m, floor));
+        }
+
+        var f = new double[n + 1];
+        var last = new int[n + 1];
+        var prunedFrom = new int[n + 1]; // a pruned τ still serves the steps before its path via t becomes admissible
+        Array.Fill(prunedFrom, int.MaxValue);
+        f[0] = -beta;
+        var candidates = new List<int> { 0 };
+        for (int t = minSegment; t <= n; t++)
+        {
+            double best = double.PositiveInfinity;
+            int arg = -1;
+            candidates.RemoveAll(tau => prunedFrom[tau] <= t);
+            foreach (int tau in candidates)
+            {
+                if (t - tau < minSegment) continue;
+                double v = f[tau] + Cost(tau, t) + beta;
+                if (v < best) { best = v; arg = tau; }
+            }
+            f[t] = best;
+            last[t] = arg;
+            if (arg < 0) continue;
+            foreach (int tau in candidates)
+                if (t - tau >= minSegment && f[tau] + Cost(tau, t) > best)
+                    prunedFrom[tau] = Math.Min(prunedFrom[tau], t + minSegment);
+            if (t <= n - minSegment) candidates.Add(t);
+        }
+        var changes = new List<int>();
+        for (int t = n; t > 0 && last[t] >= 0; t = last[t])
+            if (last[t] > 0) changes.Add(last[t]);
+        changes.Reverse();
+        return changes.ToArray();
+    }
+
+    /// <summary>1.4826 · MAD of the first differences / √2: the noise σ, insensitive to shifts in the mean.</summary>
+    public static double RobustNoise(ReadOnlySpan<double> x)
+    {
+        if (x.Length < 3) return double.NaN;
+        var d = new double[x.Length - 1];
+        for (int i = 1; i < x.Length; i++) d[i - 1] = x[i] - x[i - 1];
+        return RobustStatistics.Mad(d) * RobustStatistics.MadScale / Math.Sqrt(2);
+    }
+}
