@@ -19,6 +19,7 @@ public static class CliApp
         root.Subcommands.Add(SimilarityCommand.Build(args ?? []));
         root.Subcommands.Add(ClimatologyCommand.Build(args ?? []));
         root.Subcommands.Add(AnomaliesCommand.Build(args ?? []));
+        root.Subcommands.Add(EventsCommand.Build(args ?? []));
         return root;
     }
 

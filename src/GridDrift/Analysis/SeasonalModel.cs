@@ -3,14 +3,15 @@ using MathNet.Numerics.LinearAlgebra;
 namespace GridDrift.Analysis;
 
 /// <summary>
-/// A constant, a linear trend and annual harmonics fitted by least squares to a series in time
-/// (days); its residuals are what the seasonal-residual detector and `--on residuals` use.
+/// A constant, optionally a linear trend, and annual harmonics fitted by least squares to a
+/// series in time (days). The seasonal-residual detector uses the trend; `--on residuals` does
+/// not, because a trend term would absorb part of a step change and smear it into a ramp.
 /// </summary>
 public static class SeasonalModel
 {
-    public static double[] Residuals(ReadOnlySpan<double> days, ReadOnlySpan<double> x, int harmonics = 3, double yearDays = 365.2425)
+    public static double[] Residuals(ReadOnlySpan<double> days, ReadOnlySpan<double> x, int harmonics = 3, double yearDays = 365.2425, bool trend = true)
     {
-        int n = x.Length, p = 2 + 2 * harmonics;
+        int n = x.Length, p = (trend ? 2 : 1) + 2 * harmonics;
         var rows = new List<int>();
         for (int i = 0; i < n; i++) if (!double.IsNaN(x[i])) rows.Add(i);
         var residuals = new double[n];
@@ -22,7 +23,7 @@ public static class SeasonalModel
         for (int r = 0; r < rows.Count; r++)
         {
             int i = rows[r];
-            Basis(days[i], t0, span, harmonics, yearDays, design, r);
+            Basis(days[i], t0, span, harmonics, yearDays, trend, design, r);
             y[r] = x[i];
         }
         var beta = design.QR().Solve(y);
@@ -31,15 +32,16 @@ public static class SeasonalModel
         return residuals;
     }
 
-    static void Basis(double day, double t0, double span, int harmonics, double yearDays, Matrix<double> design, int row)
+    static void Basis(double day, double t0, double span, int harmonics, double yearDays, bool trend, Matrix<double> design, int row)
     {
-        design[row, 0] = 1;
-        design[row, 1] = (day - t0) / span;
+        int c = 0;
+        design[row, c++] = 1;
+        if (trend) design[row, c++] = (day - t0) / span;
         for (int k = 1; k <= harmonics; k++)
         {
             double a = 2 * Math.PI * k * day / yearDays;
-            design[row, 2 * k] = Math.Cos(a);
-            design[row, 2 * k + 1] = Math.Sin(a);
+            design[row, c++] = Math.Cos(a);
+            design[row, c++] = Math.Sin(a);
         }
     }
 }

@@ -48,7 +48,12 @@ public sealed class SeriesParquetWriter : ISeriesSink
         foreach (var field in new DataField[] { TimeField, RegionField, VariableField, QuantityField })
             options.ColumnEncodingHints[field.Path.ToString()] = EncodingHint.Dictionary;
         _writer = ParquetWriter.CreateAsync(schema, _stream, options).GetAwaiter().GetResult();
-        _writer.CustomMetadata = new Dictionary<string, string>(layout.Provenance.AsKeyValues(layout.Attributes));
+        var metadata = new Dictionary<string, string>(layout.Provenance.AsKeyValues(layout.Attributes))
+        {
+            ["calendar"] = layout.CalendarAttribute,
+            ["time_units"] = layout.TimeUnits.Text,
+        };
+        _writer.CustomMetadata = metadata;
     }
 
     public void Write(CfTime time, ReadOnlySpan<double> values, ReadOnlySpan<double> validFraction, CfTime? earlier = null)
