@@ -20,6 +20,7 @@ public static class CliApp
         root.Subcommands.Add(ClimatologyCommand.Build(args ?? []));
         root.Subcommands.Add(AnomaliesCommand.Build(args ?? []));
         root.Subcommands.Add(EventsCommand.Build(args ?? []));
+        root.Subcommands.Add(AttributeCommand.Build(args ?? []));
         return root;
     }
 
