@@ -21,11 +21,12 @@ public static class EventsCommand
         var minSegment = new Option<int>("--min-segment") { Description = "PELT's shortest segment, in time steps", DefaultValueFactory = _ => 10 };
         var output = new Option<string>("--out") { Description = "flags table (Parquet); OUT_counts, OUT_trends and OUT_changepoints are written beside it", Required = true };
         var json = new Option<bool>("--json") { Description = "print a JSON summary (change points and trends) on stdout" };
+        var plot = new Option<string?>("--plot") { Description = "folder for the PNG figures" };
         var quiet = CommonOptions.Quiet();
         var command = new Command("events", "Outlier events, their counts in a moving window and per year, Mann–Kendall/Sen trends and Pettitt/PELT change points of series.\n\n" +
             "Example:\n  griddrift events s.nc --quantity mean --out events.parquet --json")
         {
-            input, quantity, region, detect, on, window, changepoints, consensus, minSegment, output, json, quiet,
+            input, quantity, region, detect, on, window, changepoints, consensus, minSegment, output, json, plot, quiet,
         };
         command.SetAction(parse =>
         {
@@ -57,7 +58,7 @@ public static class EventsCommand
             };
             var analysis = new SeriesAnalysisOptions(detectors, methods, residuals, windowDays, parse.GetValue(consensus), parse.GetValue(minSegment));
             var summary = EventsStep.Run(new EventsOptions(parse.GetValue(input)!, parse.GetValue(output)!, parse.GetValue(quantity),
-                parse.GetValue(region), analysis, CommonOptions.CommandLine("events", commandLine)));
+                parse.GetValue(region), analysis, CommonOptions.CommandLine("events", commandLine), parse.GetValue(plot)));
             if (parse.GetValue(json)) parse.InvocationConfiguration.Output.WriteLine(EventsStep.Serialize(summary.Json));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift events: {summary.Series} series, {summary.Events} events, {summary.ChangePoints} change points; " +

@@ -15,7 +15,8 @@ public sealed record AttributeOptions(
     string? Quantity = null,
     string? Periods = null,
     IReadOnlyList<string>? Profiles = null,
-    string Command = "griddrift attribute");
+    string Command = "griddrift attribute",
+    string? PlotDirectory = null);
 
 public sealed record AttributeSummary(IReadOnlyList<(string Region, double Importance)> Ranking, double R2, JsonObject Json, IReadOnlyList<string> Tables);
 
@@ -109,6 +110,16 @@ public static class AttributeStep
             }
         }
 
+        if (o.PlotDirectory is { } plots)
+        {
+            Directory.CreateDirectory(plots);
+            var yearList = result.ByYear.Keys.Order().ToList();
+            var order = result.Overall.OrderByDescending(r => r.Importance).Select(r => r.Region).ToList();
+            var heat = new double[order.Count, yearList.Count];
+            for (int i = 0; i < order.Count; i++)
+                for (int k = 0; k < yearList.Count; k++) heat[i, k] = result.ByYear[yearList[k]][order[i]].Importance;
+            GridDrift.Outputs.Plots.AnalysisPlots.ImportanceHeatmap(Path.Combine(plots, "importance_heatmap.png"), o.Target, order.Select(Name).ToList(), yearList, heat);
+        }
         var ranking = result.Overall.OrderByDescending(r => r.Importance).Select(r => (Name(r.Region), r.Importance)).ToList();
         var metadata = Provenance.For(o.Command, [o.Input]).AsKeyValues(new Dictionary<string, string>
         {

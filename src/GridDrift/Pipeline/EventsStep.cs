@@ -15,7 +15,8 @@ public sealed record EventsOptions(
     string? Quantity = null,
     IReadOnlyList<string>? Regions = null,
     SeriesAnalysisOptions? Analysis = null,
-    string Command = "griddrift events");
+    string Command = "griddrift events",
+    string? PlotDirectory = null);
 
 public sealed record EventsSummary(int Series, int Events, int ChangePoints, string FlagsTable, string CountsTable, string TrendsTable, string ChangePointsTable, JsonObject Json);
 
@@ -68,8 +69,17 @@ public static class EventsStep
                 counts.Add(region, quantity, "window", iso, found.WindowCounts[t]);
                 if (found.Events[t]) eventCount++;
             }
-            foreach (var year in Enumerable.Range(0, times.Length).GroupBy(t => times[t].Year))
-                counts.Add(region, quantity, "year", year.Key.ToString("0000", CultureInfo.InvariantCulture), year.Count(t => found.Events[t]));
+            var yearly = Enumerable.Range(0, times.Length).GroupBy(t => times[t].Year).Select(g => (Year: g.Key, Count: g.Count(t => found.Events[t]))).ToList();
+            foreach (var (year, count) in yearly) counts.Add(region, quantity, "year", year.ToString("0000", CultureInfo.InvariantCulture), count);
+            if (o.PlotDirectory is { } plots)
+            {
+                Directory.CreateDirectory(plots);
+                string safe = string.Concat(region.Select(ch => char.IsLetterOrDigit(ch) || ch is '-' or '_' ? ch : '_'));
+                GridDrift.Outputs.Plots.AnalysisPlots.Series(Path.Combine(plots, $"series_{safe}.png"), region, quantity, units, times, x, found);
+                var change = found.ChangePoints.FirstOrDefault(c => c.Method == ChangeMethod.PeltMean) ?? found.ChangePoints.FirstOrDefault();
+                GridDrift.Outputs.Plots.AnalysisPlots.YearlyCounts(Path.Combine(plots, $"counts_{safe}.png"), region, yearly,
+                    change is null ? null : times[change.FirstAfter].Year);
+            }
             AddTrend(trends, region, quantity, "record", times[0], times[^1], found.Trend, found.Slope, units);
             jsonTrends.Add(new JsonObject
             {
