@@ -27,24 +27,27 @@ public static class MannKendall
 
     public static double TwoSidedP(double z) => 2 * (1 - Normal.CDF(0, 1, Math.Abs(z)));
 
-    public static Result Test(ReadOnlySpan<double> t, ReadOnlySpan<double> x)
+    public static Result Test(ReadOnlySpan<double> t, ReadOnlySpan<double> x) => Test(t, x, null);
+
+    /// <param name="senSlope">Sen's slope of the same series when already known (it detrends for Hamed–Rao)</param>
+    public static Result Test(ReadOnlySpan<double> t, ReadOnlySpan<double> x, double? senSlope)
     {
         int n = x.Length;
         if (n < 3) return new Result(n, 0, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
         long s = Ranks.KendallS(x);
         double variance = VarianceOfS(x);
         double z = ZOf(s, variance);
-        double factor = HamedRaoFactor(t, x);
+        double factor = HamedRaoFactor(t, x, senSlope);
         double corrected = variance * factor;
         double zc = ZOf(s, corrected);
         return new Result(n, s, variance, z, TwoSidedP(z), corrected, zc, TwoSidedP(zc));
     }
 
     /// <summary>n/n* of Hamed &amp; Rao from the significant lag autocorrelations of the detrended series' ranks.</summary>
-    public static double HamedRaoFactor(ReadOnlySpan<double> t, ReadOnlySpan<double> x)
+    public static double HamedRaoFactor(ReadOnlySpan<double> t, ReadOnlySpan<double> x, double? senSlope = null)
     {
         int n = x.Length;
-        double slope = SenSlope.Compute(t, x).Slope;
+        double slope = senSlope ?? SenSlope.Compute(t, x).Slope;
         var detrended = new double[n];
         for (int i = 0; i < n; i++) detrended[i] = x[i] - slope * t[i];
         var ranks = Ranks.MidRanks(detrended);
@@ -56,7 +59,11 @@ public static class MannKendall
         return factor > 0 ? factor : 1;
     }
 
-    /// <summary>Sample autocorrelation as statsmodels' acf (adjusted = False): Σ (x_t − x̄)(x_{t+k} − x̄) / Σ (x_t − x̄)².</summary>
+    /// <summary>
+    /// Sample autocorrelation as statsmodels' acf (adjusted = False): Σ (x_t − x̄)(x_{t+k} − x̄) / Σ (x_t − x̄)²,
+    /// by the Wiener–Khinchin route for long series (FFT of the zero-padded deviations, |X|², inverse FFT),
+    /// directly for short ones.
+    /// </summary>
     public static double[] Autocorrelation(ReadOnlySpan<double> x, int maxLag)
     {
         int n = x.Length;
@@ -66,12 +73,25 @@ public static class MannKendall
         double denominator = 0;
         foreach (var v in x) denominator += (v - mean) * (v - mean);
         var acf = new double[maxLag + 1];
-        for (int k = 0; k <= maxLag; k++)
+        if (!(denominator > 0)) return acf;
+        if (n < 512)
         {
-            double sum = 0;
-            for (int i = 0; i + k < n; i++) sum += (x[i] - mean) * (x[i + k] - mean);
-            acf[k] = denominator > 0 ? sum / denominator : 0;
+            for (int k = 0; k <= maxLag; k++)
+            {
+                double sum = 0;
+                for (int i = 0; i + k < n; i++) sum += (x[i] - mean) * (x[i + k] - mean);
+                acf[k] = sum / denominator;
+            }
+            return acf;
         }
+        int size = 1;
+        while (size < 2 * n) size <<= 1;
+        var spectrum = new System.Numerics.Complex[size];
+        for (int i = 0; i < n; i++) spectrum[i] = x[i] - mean;
+        MathNet.Numerics.IntegralTransforms.Fourier.Forward(spectrum, MathNet.Numerics.IntegralTransforms.FourierOptions.NoScaling);
+        for (int i = 0; i < size; i++) spectrum[i] = spectrum[i].Real * spectrum[i].Real + spectrum[i].Imaginary * spectrum[i].Imaginary;
+        MathNet.Numerics.IntegralTransforms.Fourier.Inverse(spectrum, MathNet.Numerics.IntegralTransforms.FourierOptions.NoScaling);
+        for (int k = 0; k <= maxLag; k++) acf[k] = spectrum[k].Real / size / denominator;
         return acf;
     }
 }

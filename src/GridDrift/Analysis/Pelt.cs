@@ -17,8 +17,8 @@ public enum SegmentCost
 /// prefix sums. The default penalty is the BIC's, β = p · ln n per change, with p the parameters
 /// each new segment adds: its location and its mean (p = 2 for <see cref="SegmentCost.Mean"/>), and
 /// its variance too (p = 3 for <see cref="SegmentCost.MeanAndVariance"/>);
-/// segments are at least <c>minSegment</c> long. The robust σ for the mean cost is
-/// 1.4826 · MAD(first differences) / √2, which a shift in the mean barely moves.
+/// segments are at least <c>minSegment</c> long. The σ of the mean cost comes from the first
+/// differences and allows for AR(1) noise (<see cref="RobustNoise"/>).
 /// </summary>
 public static class Pelt
 {
@@ -82,12 +82,30 @@ public static class Pelt
         return changes.ToArray();
     }
 
-    /// <summary>1.4826 · MAD of the first differences / √2: the noise σ, insensitive to shifts in the mean.</summary>
+    /// <summary>
+    /// The noise σ of the mean cost, robust to shifts in the mean and allowing for AR(1) noise:
+    /// from the first differences d, σ_d = 1.4826 · MAD(d) and their lag-1 autocorrelation r_d
+    /// (values beyond 5 σ_d from the median clipped, so a shift does not count), ρ = 1 + 2 r_d
+    /// clamped to [0, 0.95] (for AR(1) noise r_d = −(1 − ρ)/2), σ² = σ_d² / (2(1 − ρ)) and the
+    /// long-run variance σ² (1 + ρ)/(1 − ρ) — the variance that governs a segment mean. For white
+    /// noise ρ = 0 and this is σ_d / √2.
+    /// </summary>
     public static double RobustNoise(ReadOnlySpan<double> x)
     {
-        if (x.Length < 3) return double.NaN;
+        if (x.Length < 4) return double.NaN;
         var d = new double[x.Length - 1];
         for (int i = 1; i < x.Length; i++) d[i - 1] = x[i] - x[i - 1];
-        return RobustStatistics.Mad(d) * RobustStatistics.MadScale / Math.Sqrt(2);
+        double median = RobustStatistics.Median(d), sd = RobustStatistics.Mad(d) * RobustStatistics.MadScale;
+        if (!(sd > 0)) return sd;
+        for (int i = 0; i < d.Length; i++) d[i] = Math.Clamp(d[i] - median, -5 * sd, 5 * sd);
+        double num = 0, den = 0;
+        for (int i = 0; i < d.Length; i++)
+        {
+            den += d[i] * d[i];
+            if (i > 0) num += d[i] * d[i - 1];
+        }
+        double rho = Math.Clamp(1 + 2 * (den > 0 ? num / den : 0), 0, 0.95);
+        double variance = sd * sd / (2 * (1 - rho)) * (1 + rho) / (1 - rho);
+        return Math.Sqrt(variance);
     }
 }

@@ -72,8 +72,11 @@ public static class SeriesAnalysis
         var valid = Enumerable.Range(0, n).Where(i => !double.IsNaN(values[i])).ToArray();
         var t = valid.Select(i => days[i]).ToArray();
         var x = valid.Select(i => values[i]).ToArray();
-        var trend = MannKendall.Test(t, x);
-        var slope = SenSlope.Compute(t, x);
+        // Sen slopes of segments recur (a change's sides are the segments between changes): compute each once
+        var sen = new Dictionary<(int, int), SenSlope.Estimate>();
+        SenSlope.Estimate Sen(int from, int to) => sen.TryGetValue((from, to), out var e) ? e : sen[(from, to)] = SenSlope.Compute(t[from..to], x[from..to]);
+        var slope = Sen(0, x.Length);
+        var trend = MannKendall.Test(t, x, slope.Slope);
         // change points are sought where the detectors look: on the seasonal model's residuals with --on residuals
         var cx = o.OnResiduals ? valid.Select(i => target[i]).ToArray() : x;
         var changes = new List<ChangePoint>();
@@ -85,13 +88,13 @@ public static class SeriesAnalysis
             {
                 case ChangeMethod.Pettitt:
                     var p = Pettitt.Test(cx);
-                    if (p.LastBefore >= 0 && p.P < o.Alpha) changes.Add(Describe(m, valid, t, x, p.LastBefore + 1, p.P));
+                    if (p.LastBefore >= 0 && p.P < o.Alpha) changes.Add(Describe(m, valid, x, p.LastBefore + 1, p.P, Sen));
                     break;
                 default:
                     var cps = Pelt.Detect(cx, m == ChangeMethod.PeltMean ? SegmentCost.Mean : SegmentCost.MeanAndVariance, minSegment: o.MinSegment);
                     if (m == ChangeMethod.PeltMean) peltMean = cps;
                     var bounds = cps.Prepend(0).Append(x.Length).ToArray();
-                    for (int k = 0; k < cps.Length; k++) changes.Add(Describe(m, valid, t, x, cps[k], null, bounds[k], bounds[k + 2]));
+                    for (int k = 0; k < cps.Length; k++) changes.Add(Describe(m, valid, x, cps[k], null, Sen, bounds[k], bounds[k + 2]));
                     break;
             }
         }
@@ -102,17 +105,16 @@ public static class SeriesAnalysis
             {
                 var st = t[edges[k]..edges[k + 1]];
                 var sx = x[edges[k]..edges[k + 1]];
-                segments.Add((valid[edges[k]], valid[edges[k + 1] - 1] + 1, MannKendall.Test(st, sx), SenSlope.Compute(st, sx)));
+                var segmentSlope = Sen(edges[k], edges[k + 1]);
+                segments.Add((valid[edges[k]], valid[edges[k + 1] - 1] + 1, MannKendall.Test(st, sx, segmentSlope.Slope), segmentSlope));
             }
         return new SeriesFindings(flags, consensus, events, window, trend, slope, changes, segments);
     }
 
     /// <summary>A change at position <paramref name="at"/> of the valid values, described by the segments [from, at) and [at, to).</summary>
-    static ChangePoint Describe(ChangeMethod m, int[] valid, double[] t, double[] x, int at, double? p, int from = 0, int to = -1)
+    static ChangePoint Describe(ChangeMethod m, int[] valid, double[] x, int at, double? p, Func<int, int, SenSlope.Estimate> sen, int from = 0, int to = -1)
     {
         if (to < 0) to = x.Length;
-        var before = x[from..at];
-        var after = x[at..to];
-        return new ChangePoint(m, valid[at], p, before.Average(), after.Average(), SenSlope.Compute(t[from..at], before), SenSlope.Compute(t[at..to], after));
+        return new ChangePoint(m, valid[at], p, x[from..at].Average(), x[at..to].Average(), sen(from, at), sen(at, to));
     }
 }

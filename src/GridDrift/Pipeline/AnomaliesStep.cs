@@ -18,7 +18,7 @@ public sealed record AnomaliesOptions(
     string Variable,
     string Climatology,
     AnomalyKind Kind,
-    string Output,
+    string? Output,
     IReadOnlyList<string>? Regions = null,
     string? Table = null,
     string? Series = null,
@@ -78,7 +78,8 @@ public static class AnomaliesStep
             var shapes = RegionSpecs.ParseInput(o.Regions);
             mask = RegionMaskBuilder.Build(grid, shapes);
             plan = SeparablePlan.TryBuild(grid, shapes);
-            seriesPath = o.Series ?? Path.Combine(Path.GetDirectoryName(Path.GetFullPath(o.Output))!, Path.GetFileNameWithoutExtension(o.Output) + "_series.nc");
+            seriesPath = o.Series ?? (o.Output is { } output ? Path.Combine(Path.GetDirectoryName(Path.GetFullPath(output))!, Path.GetFileNameWithoutExtension(output) + "_series.nc")
+                : throw new ArgumentException("anomalies without a field file need a series path"));
             var calendarAttribute0 = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
             string quantity = o.Kind == AnomalyKind.Absolute ? "anomaly" : o.Kind.Name() + "_anomaly";
             var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea,
@@ -89,21 +90,25 @@ public static class AnomaliesStep
         try
         {
             var calendarAttribute = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
-            using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, provenance.AsKeyValues(extra));
-            var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
-            [
-                NcAttribute.Text("standard_name", "time"), NcAttribute.Text("long_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text),
-                NcAttribute.Text("calendar", calendarAttribute), NcAttribute.Text("axis", "T"),
-            ]);
-            var data = w.Writer.AddVariable(o.Variable, NcType.Float, w.FieldDimensions(), template.DataAttributes
-                .Where(a => a.Name is "coordinates" or "grid_mapping")
-                .Append(NcAttribute.Text("long_name", longName))
-                .Append(NcAttribute.Text("units", anomalyUnits))
-                .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
-            w.EndDefinitions();
+            using var w = o.Output is null ? null : new FieldNetCdfWriter(o.Output, template, -1, o.Format, provenance.AsKeyValues(extra));
+            ClassicWriter.Definition? time = null, data = null;
+            if (w is not null)
+            {
+                time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
+                [
+                    NcAttribute.Text("standard_name", "time"), NcAttribute.Text("long_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text),
+                    NcAttribute.Text("calendar", calendarAttribute), NcAttribute.Text("axis", "T"),
+                ]);
+                data = w.Writer.AddVariable(o.Variable, NcType.Float, w.FieldDimensions(), template.DataAttributes
+                    .Where(a => a.Name is "coordinates" or "grid_mapping")
+                    .Append(NcAttribute.Text("long_name", longName))
+                    .Append(NcAttribute.Text("units", anomalyUnits))
+                    .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
+                w.EndDefinitions();
+            }
             int noSlot = Stream(source, clim, o, mask, plan, w, time, data, series, progress);
             if (noSlot > 0) warnings.Add($"{noSlot} frames fall in no slot of the climatology (a time of day it does not hold): their anomalies are missing");
-            w.Commit();
+            w?.Commit();
             series?.Complete();
             return new AnomaliesSummary(source.FrameCount, noSlot, seriesPath, warnings);
         }
@@ -114,7 +119,7 @@ public static class AnomaliesStep
     }
 
     static int Stream(FrameSource source, ClimatologyFile clim, AnomaliesOptions o, RegionMask? mask, SeparablePlan? plan,
-        FieldNetCdfWriter w, ClassicWriter.Definition time, ClassicWriter.Definition data, ISeriesSink? series, IProgress<(int, int)>? progress)
+        FieldNetCdfWriter? w, ClassicWriter.Definition? time, ClassicWriter.Definition? data, ISeriesSink? series, IProgress<(int, int)>? progress)
     {
         int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount);
         var frames = Enumerable.Range(0, workers).Select(_ => new float[source.FrameLength]).ToArray();
@@ -146,11 +151,14 @@ public static class AnomaliesStep
             for (int k = 0; k < n; k++)
             {
                 if (slots[k] < 0) noSlot++;
-                one[0] = source.TimeUnits.Encode(source.Times[batch + k]);
-                w.Writer.WriteRecord<double>(time, batch + k, one);
-                var a = anomalies[k];
-                for (int i = 0; i < a.Length; i++) record[i] = float.IsNaN(a[i]) ? ClimatologyNetCdfWriter.Fill : a[i];
-                w.Writer.WriteRecord<float>(data, batch + k, record);
+                if (w is not null)
+                {
+                    one[0] = source.TimeUnits.Encode(source.Times[batch + k]);
+                    w.Writer.WriteRecord<double>(time!, batch + k, one);
+                    var a = anomalies[k];
+                    for (int i = 0; i < a.Length; i++) record[i] = float.IsNaN(a[i]) ? ClimatologyNetCdfWriter.Fill : a[i];
+                    w.Writer.WriteRecord<float>(data!, batch + k, record);
+                }
                 if (series is not null)
                 {
                     for (int r = 0; r < regions; r++)

@@ -56,11 +56,19 @@ public static class EventsStep
         var jsonChanges = new JsonArray();
         var jsonTrends = new JsonArray();
         int eventCount = 0;
-        foreach (var region in regions)
+        // the regions are independent: analyse them on every core, then write in their order
+        var series_ = regions.Select(region =>
         {
             int r = Array.IndexOf(series.Regions, region);
-            var x = Enumerable.Range(0, times.Length).Select(t => values[t * series.Regions.Length + r]).ToArray();
-            var found = SeriesAnalysis.Analyse(days, x, analysis);
+            return Enumerable.Range(0, times.Length).Select(t => values[t * series.Regions.Length + r]).ToArray();
+        }).ToArray();
+        var findings = new SeriesFindings[regions.Count];
+        Parallel.For(0, regions.Count, k => findings[k] = SeriesAnalysis.Analyse(days, series_[k], analysis));
+        for (int regionIndex = 0; regionIndex < regions.Count; regionIndex++)
+        {
+            string region = regions[regionIndex];
+            var x = series_[regionIndex];
+            var found = findings[regionIndex];
             for (int t = 0; t < times.Length; t++)
             {
                 string iso = times[t].ToIsoString();
@@ -87,6 +95,7 @@ public static class EventsStep
                 ["sen_slope"] = Number(found.Slope.Slope), ["sen_slope_lo"] = Number(found.Slope.Low), ["sen_slope_hi"] = Number(found.Slope.High),
                 ["mk_z"] = Number(found.Trend.ZCorrected), ["mk_p"] = Number(found.Trend.PCorrected),
                 ["mk_z_uncorrected"] = Number(found.Trend.Z), ["mk_p_uncorrected"] = Number(found.Trend.P),
+                ["noise_sd"] = Number(NoiseSd(x)),
             });
             foreach (var (first, end, trend, slope) in found.Segments)
                 AddTrend(trends, region, quantity, "segment", times[first], times[end - 1], trend, slope, units);
@@ -94,7 +103,11 @@ public static class EventsStep
             {
                 string when = times[c.FirstAfter].ToIsoString();
                 changes.Add(region, quantity, Name(c.Method), when, c.P ?? double.NaN, c.MeanBefore, c.MeanAfter, c.Before.Slope, c.After.Slope, c.TrendReverses);
-                jsonChanges.Add(new JsonObject { ["region"] = region, ["quantity"] = quantity, ["method"] = Name(c.Method), ["time"] = when, ["p_value"] = c.P is { } p ? Number(p) : null });
+                jsonChanges.Add(new JsonObject
+                {
+                    ["region"] = region, ["quantity"] = quantity, ["method"] = Name(c.Method), ["time"] = when, ["p_value"] = c.P is { } p ? Number(p) : null,
+                    ["mean_before"] = Number(c.MeanBefore), ["mean_after"] = Number(c.MeanAfter), ["trend_reverses"] = c.TrendReverses,
+                });
             }
         }
         var metadata = Provenance.For(o.Command, [o.Input]).AsKeyValues(new Dictionary<string, string>
@@ -127,6 +140,16 @@ public static class EventsStep
         trends.Add(region, quantity, scope, start.ToIsoString(), end.ToIsoString(), mk.N, (double)mk.S, mk.VarS, mk.Z, mk.P, mk.ZCorrected, mk.PCorrected, sen.Slope, sen.Low, sen.High, units);
 
     static JsonNode? Number(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
+
+    /// <summary>The series' short-term noise: 1.4826 · MAD of its first differences / √2 (NaN values skipped).</summary>
+    static double NoiseSd(double[] x)
+    {
+        var v = x.Where(d => !double.IsNaN(d)).ToArray();
+        if (v.Length < 3) return double.NaN;
+        var d = new double[v.Length - 1];
+        for (int i = 1; i < v.Length; i++) d[i - 1] = v[i] - v[i - 1];
+        return RobustStatistics.Mad(d) * RobustStatistics.MadScale / Math.Sqrt(2);
+    }
 
     static double YearDays(CfCalendar c) => c switch
     {

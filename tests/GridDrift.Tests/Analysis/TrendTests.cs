@@ -18,6 +18,7 @@ public class TrendTests
         { 120, 0.0, 0.6, false },   // no trend, AR(1) 0.6
         { 200, -0.01, 0.4, true },  // trend, autocorrelated, rounded values (ties)
         { 90, 0.05, 0.0, true },
+        { 700, 0.002, 0.5, false }, // long enough for the FFT autocorrelation
     };
 
     static (double[] T, double[] X) Make(int n, double slope, double ar, bool ties, int seed)
