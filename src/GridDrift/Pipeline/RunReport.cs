@@ -142,6 +142,12 @@ public static class RunReport
         _ => name,
     };
 
-    static string Format(JsonNode? n, double scale = 1) =>
-        n is null ? "–" : n.GetValueKind() == System.Text.Json.JsonValueKind.Number ? (n.GetValue<double>() * scale).ToString("0.####", CultureInfo.InvariantCulture) : n.ToString();
+    static string Format(JsonNode? n, double scale = 1)
+    {
+        if (n is null) return "–";
+        if (n.GetValueKind() != System.Text.Json.JsonValueKind.Number) return n.ToString();
+        double v = n.GetValue<double>() * scale;
+        // small figures keep three significant digits instead of rounding to 0
+        return (v != 0 && Math.Abs(v) < 0.01 ? v.ToString("0.##E+0", CultureInfo.InvariantCulture) : v.ToString("0.####", CultureInfo.InvariantCulture));
+    }
 }

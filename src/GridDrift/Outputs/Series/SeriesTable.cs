@@ -35,9 +35,9 @@ static class SeriesTable
                 ?? throw new BadInputException(path, null, $"has no column '{name}': not a GridDrift series table");
             string[] Text(string name)
             {
-                var buffer = new string[rows];
+                var buffer = new string?[rows];
                 group.ReadAsync(Field(name), buffer.AsMemory(), null, default).AsTask().GetAwaiter().GetResult();
-                return buffer;
+                return buffer.Select(v => v ?? "").ToArray();
             }
             time.AddRange(Text("time"));
             region.AddRange(Text("region"));
