@@ -1,9 +1,11 @@
 """Peer for the climatology benchmark: the numpy group-by a careful user writes. Reads the
 whole variable with python netCDF4, decodes the times with cftime, then per slot (month, or
 month x hour of day) selects the frames and takes nanmean, nanstd and the valid count over
-time. Prints the seconds taken (read included) and a checksum.
+time, and writes the three (slot, lat, lon) float32 fields to a 64-bit-offset NetCDF file with
+python netCDF4 (the same job as GridDrift's, which writes its climatology too). Prints the
+seconds taken (read and write included) and a checksum.
 
-usage: numpy_climatology.py FILE VAR month|hour-by-month"""
+usage: numpy_climatology.py FILE VAR month|hour-by-month OUT"""
 import sys
 import time
 import warnings
@@ -11,7 +13,7 @@ import warnings
 import netCDF4
 import numpy as np
 
-path, var, kind = sys.argv[1:4]
+path, var, kind, out = sys.argv[1:5]
 start = time.perf_counter()
 with netCDF4.Dataset(path) as ds:
     t = ds["time"]
@@ -25,12 +27,22 @@ else:
     hours = np.array([d.hour for d in dates])
     keys = (months - 1) * 24 + hours
 checksum = 0.0
+slots = np.unique(keys)
+means = np.empty((slots.size,) + data.shape[1:], np.float32)
+stds = np.empty_like(means)
+counts = np.empty_like(means)
 with warnings.catch_warnings():
     warnings.simplefilter("ignore", RuntimeWarning)
-    for key in np.unique(keys):
+    for k, key in enumerate(slots):
         sel = data[keys == key]
-        mean = np.nanmean(sel, axis=0)
-        std = np.nanstd(sel, axis=0)
-        count = np.sum(~np.isnan(sel), axis=0)
-        checksum += float(mean[0, 0] + std[0, 0] + count[0, 0])
+        means[k] = np.nanmean(sel, axis=0)
+        stds[k] = np.nanstd(sel, axis=0)
+        counts[k] = np.sum(~np.isnan(sel), axis=0)
+        checksum += float(means[k, 0, 0] + stds[k, 0, 0] + counts[k, 0, 0])
+with netCDF4.Dataset(out, "w", format="NETCDF3_64BIT_OFFSET") as ds:
+    ds.createDimension("time", slots.size)
+    ds.createDimension("lat", data.shape[1])
+    ds.createDimension("lon", data.shape[2])
+    for name, values in (("mean", means), ("std", stds), ("count", counts)):
+        ds.createVariable(name, "f4", ("time", "lat", "lon"))[:] = values
 print(f"{time.perf_counter() - start:.3f} {checksum:.6f}")

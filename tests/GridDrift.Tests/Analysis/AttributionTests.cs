@@ -87,7 +87,7 @@ public class AttributionTests
             "--profiles", "east_box", "--out", dir.File("att.parquet"), "--json", "--quiet");
         Assert.True(outcome.ExitCode == 0, outcome.Stderr);
         var json = JsonDocument.Parse(outcome.Stdout).RootElement;
-        var leaders = json.GetProperty("ranking").EnumerateArray().Take(2).Select(r => r.GetProperty("region").GetString()).Order().ToArray();
+        var leaders = json.GetProperty("ranking").EnumerateArray().Take(2).Select(r => r.GetProperty("region").GetString()!).Order().ToArray();
         Assert.Equal(["east_box", "polar_cap"], leaders);
         var changes = json.GetProperty("rank_changes").EnumerateArray().ToDictionary(c => c.GetProperty("region").GetString()!, c => c.GetProperty("rank_second").GetInt32());
         Assert.True(changes["east_box"] <= 2 && changes["polar_cap"] <= 2, "after the change the two regions lead");

@@ -23,7 +23,7 @@ public class EventsTests
         var json = JsonDocument.Parse(outcome.Stdout).RootElement;
         var shift = new DateTime(2033, 7, 1);
         var pelt = json.GetProperty("changepoints").EnumerateArray().Where(c => c.GetProperty("method").GetString() == "pelt-mean").ToList();
-        var changed = pelt.Select(c => c.GetProperty("region").GetString()).Distinct().Order().ToArray();
+        var changed = pelt.Select(c => c.GetProperty("region").GetString()!).Distinct().Order().ToArray();
         Assert.Equal(["east_box", "polar_cap"], changed);
         foreach (var c in pelt)
         {

@@ -37,7 +37,7 @@ public class ClimatologyStructureTests
         Assert.Equal("atmosphere_mass_content_of_water_vapor number_of_observations", Attr(vars, "tcwv_count", "standard_name"));
         Assert.Equal("kg m-2", Attr(vars, "tcwv", "units"));
         Assert.Equal([40.0, 20.0, 0.0, -20.0, -40.0], f.GetProperty("lat").EnumerateArray().Select(e => e.GetDouble()));
-        var bounds = f.GetProperty("bounds").EnumerateArray().Select(r => r.EnumerateArray().Select(e => e.GetString()).ToArray()).ToArray();
+        var bounds = f.GetProperty("bounds").EnumerateArray().Select(r => r.EnumerateArray().Select(e => e.GetString()!).ToArray()).ToArray();
         Assert.Equal(12, bounds.Length);
         Assert.Equal(["2030-01-01T00:00:00", "2033-02-01T00:00:00"], bounds[0]);
         Assert.Equal(["2030-12-01T00:00:00", "2034-01-01T00:00:00"], bounds[11]);
@@ -59,7 +59,7 @@ public class ClimatologyStructureTests
         var f = JsonDocument.Parse(ExternalTools.RunPython("climatology_attributes.py", output, "tcwv")).RootElement;
         var vars = f.GetProperty("variables");
         Assert.Equal("time: mean within days time: mean over days time: mean over years", Attr(vars, "tcwv", "cell_methods"));
-        var bounds = f.GetProperty("bounds").EnumerateArray().Select(r => r.EnumerateArray().Select(e => e.GetString()).ToArray()).ToArray();
+        var bounds = f.GetProperty("bounds").EnumerateArray().Select(r => r.EnumerateArray().Select(e => e.GetString()!).ToArray()).ToArray();
         Assert.Equal(48, bounds.Length); // 12 months x 4 times of day of six-hourly data
         // slot (January, 06:00): from its first sample to its last sample plus the six-hour step
         Assert.Equal(["2030-01-01T06:00:00", "2031-01-31T12:00:00"], bounds[1]);
