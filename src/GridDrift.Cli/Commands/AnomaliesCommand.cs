@@ -37,7 +37,7 @@ public static class AnomaliesCommand
             var options = new AnomaliesOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(climatology)!, anomalyKind,
                 parse.GetValue(output)!, regionSpecs, parse.GetValue(table), parse.GetValue(series), parse.GetValue(minValid),
                 CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("anomalies", commandLine));
-            var summary = AnomaliesStep.Run(options);
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => AnomaliesStep.Run(options, progress));
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift anomalies: warning: {w}");
             if (!parse.GetValue(quiet))

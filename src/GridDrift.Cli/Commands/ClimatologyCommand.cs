@@ -29,7 +29,7 @@ public static class ClimatologyCommand
                 ?? throw new BadInputException(null, null, $"--by {parse.GetValue(by)}: choose month, day-of-year or hour-by-month");
             var options = new ClimatologyOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, kind, parse.GetValue(output)!,
                 parse.GetValue(basePeriod), parse.GetValue(smooth), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("climatology", commandLine));
-            var summary = ClimatologyStep.Run(options);
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => ClimatologyStep.Run(options, progress));
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift climatology: warning: {w}");
             if (!parse.GetValue(quiet))

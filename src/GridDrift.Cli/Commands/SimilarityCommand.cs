@@ -47,7 +47,7 @@ public static class SimilarityCommand
             var options = new SimilarityOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!, metrics,
                 parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(lag), parse.GetValue(range), parse.GetValue(acrossGaps), parse.GetValue(against),
                 parse.GetValue(minValid), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("similarity", commandLine));
-            var summary = SimilarityStep.Run(options);
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "pairs", progress => SimilarityStep.Run(options, progress));
             var error = parse.InvocationConfiguration.Error;
             if (summary.CellsOutsideRange > 0)
                 error.WriteLine($"griddrift similarity: warning: {summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High} ({summary.Range.Source}); SSIM's constants assume they do not");

@@ -43,7 +43,7 @@ public static class StatsCommand
             var options = new StatsOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!,
                 statistics, parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(minValid), parse.GetValue(radius),
                 CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("stats", commandLine));
-            var summary = StatsStep.Run(options);
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => StatsStep.Run(options, progress));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine(
                     $"griddrift stats: {summary.Frames} frames × {summary.Regions} regions written to {options.Output}" +

@@ -9,7 +9,8 @@ namespace GridDrift.Tests.Analysis;
 /// e-Handbook of Statistical Methods (§1.3.5.17.3, Rosner's 54 values; data, statistics and
 /// critical values from memory of that page): exactly three outliers; robust z, Tukey fences
 /// and Hampel against numpy (Interop/scripts/detectors_reference.py); the seasonal residual
-/// finds spikes a seasonal cycle hides.
+/// finds spikes a seasonal cycle hides; its harmonic model equals numpy's least squares
+/// (Interop/scripts/harmonic_reference.py).
 /// </summary>
 public class OutlierTests
 {
@@ -56,6 +57,18 @@ public class OutlierTests
             Assert.True(Math.Abs(o - scores[i]) <= 1e-9 * Math.Max(1, Math.Abs(scores[i])), $"{name}[{i}]: numpy {scores[i]:R}, ours {o:R}");
         }
         Assert.Equal(reference.GetProperty(name + "_flags").EnumerateArray().Select(e => e.GetInt32()), Enumerable.Range(0, ours.Length).Where(i => ours[i].Flagged));
+    }
+
+    [InteropFact(Needs.PythonScipy)]
+    public void Seasonal_model_residuals_equal_numpy_least_squares()
+    {
+        var rng = new Random(21);
+        var days = Enumerable.Range(0, 1500).Select(d => d * 0.75).ToArray();
+        var x = days.Select(d => 5 + 0.001 * d + 3 * Math.Sin(2 * Math.PI * d / 365.2425) + TrendTests.Normal(rng)).ToArray();
+        var reference = JsonDocument.Parse(ExternalTools.RunPythonWithInput("harmonic_reference.py", JsonSerializer.Serialize(new { days, x }))).RootElement;
+        var expected = reference.GetProperty("residuals").EnumerateArray().Select(e => e.GetDouble()).ToArray();
+        var ours = SeasonalModel.Residuals(days, x);
+        for (int i = 0; i < x.Length; i++) Assert.True(Math.Abs(expected[i] - ours[i]) < 1e-9, $"residual {i}: numpy {expected[i]:R}, ours {ours[i]:R}");
     }
 
     [Fact]
