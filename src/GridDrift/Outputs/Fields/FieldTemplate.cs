@@ -30,12 +30,13 @@ public sealed class FieldTemplate
         DataAttributes = data;
     }
 
-    public static FieldTemplate From(FrameSource source)
+    /// <param name="without">a frame dimension the product drops (e.g. the vertical one of a column integral)</param>
+    public static FieldTemplate From(FrameSource source, string? without = null)
     {
         var reader = source.Template;
         var data = reader.RequireVariable(source.VariableName);
-        var frameDims = source.FrameDimensions.Select(d => d.Name).ToList();
-        var dims = source.FrameDimensions.Select(d => (d.Name, d.Length)).ToList();
+        var frameDims = source.FrameDimensions.Select(d => d.Name).Where(d => d != without).ToList();
+        var dims = source.FrameDimensions.Where(d => d.Name != without).Select(d => (d.Name, d.Length)).ToList();
         var chosen = new List<NcVariable>();
         foreach (var v in reader.Variables)
         {

@@ -1,0 +1,33 @@
+using System.Text.Json;
+using GridDrift.Tests.Support;
+
+namespace GridDrift.Tests.Conventions;
+
+/// <summary>
+/// `griddrift derive column-water-vapour` on a python-netCDF4 fixture (q in g/kg on levels in hPa,
+/// surface pressure in Pa above and below the deepest level) against numpy's trapz of the same
+/// columns (Interop/scripts/column_water_reference.py); float32 output, so 1e-6 relative.
+/// </summary>
+public class DeriveTests
+{
+    [InteropFact(Needs.PythonNetcdf)]
+    public void Column_water_vapour_equals_numpy_with_units_converted_and_the_surface_bounding_the_column()
+    {
+        using var dir = new TempFolder();
+        string input = dir.File("model.nc"), output = dir.File("tcwv.nc");
+        ExternalTools.RunPython("column_water_reference.py", "make", input);
+        var outcome = CliRun.Run("derive", "column-water-vapour", input, "--surface-pressure", "ps", "--out", output, "--quiet");
+        Assert.True(outcome.ExitCode == 0, outcome.Stderr);
+        var check = JsonDocument.Parse(ExternalTools.RunPython("column_water_reference.py", "check", input, output)).RootElement;
+        Assert.Equal(60, check.GetProperty("n").GetInt32());
+        Assert.True(check.GetProperty("max_rel").GetDouble() < 1e-6, $"largest relative difference from numpy {check.GetProperty("max_rel").GetDouble():E2}");
+    }
+
+    [Fact]
+    public void A_quantity_not_yet_available_is_refused_by_name()
+    {
+        var outcome = CliRun.Run("derive", "relative-humidity", "x.nc", "--out", "y.nc");
+        Assert.Equal(2, outcome.ExitCode);
+        Assert.Contains("relative-humidity", Assert.Single(outcome.StderrLines));
+    }
+}
