@@ -21,6 +21,7 @@ public static class CliApp
         root.Subcommands.Add(AnomaliesCommand.Build(args ?? []));
         root.Subcommands.Add(EventsCommand.Build(args ?? []));
         root.Subcommands.Add(AttributeCommand.Build(args ?? []));
+        root.Subcommands.Add(RegridCommand.Build(args ?? []));
         root.Subcommands.Add(DeriveCommand.Build(args ?? []));
         root.Subcommands.Add(RunCommands.Run(args ?? []));
         root.Subcommands.Add(RunCommands.Demo(args ?? []));

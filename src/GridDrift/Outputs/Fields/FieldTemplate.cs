@@ -59,6 +59,25 @@ public sealed class FieldTemplate
         return new FieldTemplate(dims, frameDims, copies, dataAttributes);
     }
 
+    /// <summary>A regular or Gaussian latitude-longitude grid of our own making (a regrid target): lat, lon and their bounds.</summary>
+    public static FieldTemplate ForGrid(GridDrift.Grids.Grid grid, IEnumerable<NcAttribute> dataAttributes)
+    {
+        if (!grid.IsRectilinear) throw new ArgumentException("only latitude-longitude target grids have a template");
+        var lat = Enumerable.Range(0, grid.Rows).Select(j => grid.CenterLat[j * grid.Columns]).ToArray();
+        var lon = Enumerable.Range(0, grid.Columns).Select(i => grid.CenterLon[i]).ToArray();
+        var latBounds = Enumerable.Range(0, grid.Rows).SelectMany(j => new[] { grid.LatEdges![j], grid.LatEdges[j + 1] }).ToArray();
+        var lonBounds = Enumerable.Range(0, grid.Columns).SelectMany(i => new[] { grid.LonEdges![i], grid.LonEdges[i + 1] }).ToArray();
+        var vars = new List<CopiedVariable>
+        {
+            new("lat", ["lat"], [NcAttribute.Text("standard_name", "latitude"), NcAttribute.Text("units", "degrees_north"), NcAttribute.Text("bounds", "lat_bnds")], lat),
+            new("lon", ["lon"], [NcAttribute.Text("standard_name", "longitude"), NcAttribute.Text("units", "degrees_east"), NcAttribute.Text("bounds", "lon_bnds")], lon),
+            new("lat_bnds", ["lat", "nv"], [], latBounds),
+            new("lon_bnds", ["lon", "nv"], [], lonBounds),
+        };
+        return new FieldTemplate([("lat", grid.Rows), ("lon", grid.Columns), ("nv", 2)], ["lat", "lon"], vars,
+            dataAttributes.Where(a => Descriptive.Contains(a.Name) && a.Name is not ("coordinates" or "grid_mapping")).Select(Classic).ToList());
+    }
+
     static CopiedVariable Copy(IDatasetReader reader, NcVariable v)
     {
         var raw = reader.ReadAllDoubles(v);

@@ -1,0 +1,35 @@
+using System.CommandLine;
+using GridDrift.Frames;
+using GridDrift.Pipeline;
+
+namespace GridDrift.Cli.Commands;
+
+/// <summary>`griddrift regrid`: remap fields onto another grid.</summary>
+public static class RegridCommand
+{
+    public static Command Build(string[] commandLine)
+    {
+        var files = CommonOptions.Files();
+        var variable = CommonOptions.Variable();
+        var to = new Option<string>("--to") { Description = "target grid: regular:D, regular:DLATxDLON, or a file whose grid is taken", Required = true };
+        var method = new Option<string>("--method") { Description = "bilinear or conservative", DefaultValueFactory = _ => "conservative" };
+        var output = new Option<string>("--out") { Description = "NetCDF to write", Required = true };
+        var format = CommonOptions.Format();
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("regrid", "Remap fields onto another latitude-longitude grid, conservatively (exact overlap areas) or bilinearly.\n\n" +
+            "Example:\n  griddrift regrid cf-samples/tcwv_synthetic_2031.nc --var tcwv --to regular:10 --method conservative --out tcwv_10deg.nc")
+        {
+            files, variable, to, method, output, format, quiet,
+        };
+        command.SetAction(parse =>
+        {
+            var options = new RegridOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(to)!, parse.GetValue(method)!,
+                parse.GetValue(output)!, CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("regrid", commandLine));
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => RegridStep.Run(options, progress));
+            if (!parse.GetValue(quiet))
+                parse.InvocationConfiguration.Error.WriteLine($"griddrift regrid: {summary.Frames} frames onto {summary.Target.Rows} × {summary.Target.Columns} ({summary.Weights.Column.Length} weights) written to {options.Output}");
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}
