@@ -1,4 +1,5 @@
 using GridDrift.Conventions.Coordinates;
+using GridDrift.Conventions.Time;
 using GridDrift.Formats;
 using GridDrift.Formats.Classic;
 using GridDrift.Frames;
@@ -16,9 +17,11 @@ public sealed record RegridOptions(
     string Method,
     string Output,
     ClassicVariant? Format = null,
-    string Command = "griddrift regrid");
+    string Command = "griddrift regrid",
+    string? Calendar = null,
+    string? Resample = null);
 
-public sealed record RegridSummary(int Frames, Grid Target, RemapWeights Weights);
+public sealed record RegridSummary(int Frames, int Written, int Dropped, Grid Target, RemapWeights Weights);
 
 /// <summary>
 /// `griddrift regrid`: each frame remapped onto a target grid (`regular:D`, `regular:DLATxDLON` or
@@ -50,17 +53,34 @@ public static class RegridStep
         var data = source.Template.RequireVariable(o.Variable);
         var template = FieldTemplate.ForGrid(target, data.Attributes);
         var calendar = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
+        var toCalendar = source.Calendar;
+        if (o.Calendar is { } wanted)
+        {
+            toCalendar = CfCalendars.Parse(wanted) ?? throw new BadInputException(null, null, $"--calendar {wanted} is not a CF calendar");
+            if (!CalendarAlignment.CanAlign(source.Calendar, toCalendar))
+                throw new BadInputException(source.Files[0], source.Axes.Time!.Name, $"{source.Calendar.CfName()} dates cannot keep their dates in the {toCalendar.CfName()} calendar (360_day has 30 February): not aligned rather than shifted");
+            calendar = toCalendar.CfName();
+        }
+        Resampling resampling;
+        try { resampling = PeriodMeans.Parse(o.Resample); }
+        catch (FormatException e) { throw new BadInputException(null, null, e.Message); }
+        var units = TimeUnits.Parse(source.TimeUnits.Text, toCalendar);
         var globals = Provenance.For(o.Command, source.Files).AsKeyValues(new Dictionary<string, string>
         {
             ["title"] = $"{o.Variable} remapped to {o.To}",
             ["remap_method"] = weights.Method + "; missing source cells left out and the weights renormalised",
             ["remap_source_grid"] = $"{grid.Rows} x {grid.Columns} ({grid.Kind})",
+            ["calendar_alignment"] = toCalendar == source.Calendar ? "none" : $"{source.Calendar.CfName()} -> {toCalendar.CfName()} by date (year, month, day and time of day kept; dates the target calendar lacks dropped)",
+            ["resampling"] = resampling == Resampling.None ? "none" : $"{resampling.ToString().ToLowerInvariant()} means of the frames in each period",
         });
         using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, globals);
-        var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
-            [NcAttribute.Text("standard_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text), NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T")]);
+        var timeAttributes = new List<NcAttribute> { NcAttribute.Text("standard_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text), NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T") };
+        if (resampling != Resampling.None) timeAttributes.Add(NcAttribute.Text("bounds", "time_bnds"));
+        var time = w.Writer.AddVariable("time", NcType.Double, [w.Time], timeAttributes);
+        var bounds = resampling == Resampling.None ? null : w.Writer.AddVariable("time_bnds", NcType.Double, [w.Time, w.AddDimension("nv", 2)]);
         var attributes = template.DataAttributes.ToList();
-        if (o.Method == "conservative") attributes.Add(NcAttribute.Text("cell_methods", "area: mean"));
+        string methods = (o.Method == "conservative" ? "area: mean" : "") + (resampling == Resampling.None ? "" : " time: mean");
+        if (methods.Trim().Length > 0) attributes.Add(NcAttribute.Text("cell_methods", methods.Trim()));
         attributes.Add(NcAttribute.Text("ancillary_variables", o.Variable + "_covered_fraction"));
         attributes.Add(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill));
         var values = w.Writer.AddVariable(o.Variable, NcType.Float, w.FieldDimensions(), attributes);
@@ -70,18 +90,48 @@ public static class RegridStep
         var frame = new float[source.FrameLength];
         var output = new float[target.CellCount];
         var covered = new float[target.CellCount];
+        var record = new float[target.CellCount];
+        int written = 0, dropped = 0;
+        void Write(CfTime when, CfTime? from, CfTime? to, float[] field, float[] share)
+        {
+            for (int i = 0; i < field.Length; i++) record[i] = float.IsNaN(field[i]) ? ClimatologyNetCdfWriter.Fill : field[i];
+            w.Writer.WriteRecord<double>(time, written, [units.Encode(when)]);
+            if (bounds is not null) w.Writer.WriteRecord<double>(bounds, written, [units.Encode(from!.Value), units.Encode(to!.Value)]);
+            w.Writer.WriteRecord<float>(values, written, record);
+            w.Writer.WriteRecord<float>(fraction, written, share);
+            written++;
+        }
+        var fractionMeans = new float[target.CellCount];
+        var fractionSum = new double[target.CellCount];
+        int inPeriod = 0;
+        var means = resampling == Resampling.None ? null : new PeriodMeans(resampling, target.CellCount, (mid, from, to, mean) =>
+        {
+            for (int i = 0; i < fractionSum.Length; i++) fractionMeans[i] = (float)(fractionSum[i] / Math.Max(1, inPeriod));
+            Write(mid, from, to, mean, fractionMeans);
+            Array.Clear(fractionSum);
+            inPeriod = 0;
+        });
+        CfTime? period = null;
         for (int t = 0; t < source.FrameCount; t++)
         {
+            if (CalendarAlignment.Align(source.Times[t], toCalendar) is not { } when) { dropped++; continue; }
             source.ReadFrame(t, frame);
             weights.Apply(frame, output, covered);
-            for (int i = 0; i < output.Length; i++) if (float.IsNaN(output[i])) output[i] = ClimatologyNetCdfWriter.Fill;
-            w.Writer.WriteRecord<double>(time, t, [source.TimeUnits.Encode(source.Times[t])]);
-            w.Writer.WriteRecord<float>(values, t, output);
-            w.Writer.WriteRecord<float>(fraction, t, covered);
+            if (means is null) Write(when, null, null, output, covered);
+            else
+            {
+                var start = means.PeriodStart(when);
+                if (period is { } p && p != start) means.Flush();
+                period = start;
+                means.Add(when, output);
+                for (int i = 0; i < covered.Length; i++) fractionSum[i] += covered[i];
+                inPeriod++;
+            }
             progress?.Report((t + 1, source.FrameCount));
         }
+        means?.Flush();
         w.Commit();
-        return new RegridSummary(source.FrameCount, target, weights);
+        return new RegridSummary(source.FrameCount, written, dropped, target, weights);
     }
 
     static Grid ReadTarget(string path)
