@@ -9,22 +9,25 @@ public static class DeriveCommand
 {
     public static Command Build(string[] commandLine)
     {
-        var quantity = new Argument<string>("QUANTITY") { Description = "column-water-vapour (relative-humidity and specific-humidity are not available yet)" };
+        var quantity = new Argument<string>("QUANTITY") { Description = "column-water-vapour, relative-humidity or specific-humidity" };
         var files = CommonOptions.Files();
-        var variable = new Option<string?>("--var") { Description = "specific humidity on pressure levels (default: the variable with standard_name specific_humidity)" };
+        var variable = new Option<string?>("--var") { Description = "the input: specific humidity (column-water-vapour, relative-humidity) or dew point (specific-humidity); default found by standard_name" };
+        var temperature = new Option<string?>("--temperature") { Description = "relative-humidity: the air temperature variable (default: standard_name air_temperature)" };
+        var pressure = new Option<string?>("--pressure") { Description = "relative-humidity, specific-humidity: a pressure variable of the same shape (default: the pressure levels)" };
         var surface = new Option<string?>("--surface-pressure") { Description = "surface-pressure variable in the same files: the column ends there" };
         var output = new Option<string>("--out") { Description = "NetCDF to write", Required = true };
         var format = CommonOptions.Format();
         var quiet = CommonOptions.Quiet();
-        var command = new Command("derive", "Derive a quantity from model output: total column water vapour from specific humidity on pressure levels.\n\n" +
+        var command = new Command("derive", "Derive a quantity from model output: total column water vapour from specific humidity on pressure levels, relative humidity, or specific humidity from the dew point.\n\n" +
             "Example:\n  griddrift derive column-water-vapour cf-samples/q_levels_noleap_2031.nc --out tcwv.nc")
         {
-            quantity, files, variable, surface, output, format, quiet,
+            quantity, files, variable, temperature, pressure, surface, output, format, quiet,
         };
         command.SetAction(parse =>
         {
             var options = new DeriveOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(quantity)!, parse.GetValue(output)!, parse.GetValue(variable),
-                parse.GetValue(surface), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("derive", commandLine));
+                parse.GetValue(surface), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("derive", commandLine),
+                parse.GetValue(temperature), parse.GetValue(pressure));
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => DeriveStep.Run(options, progress));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift derive: {summary.Frames} frames of {summary.Variable} from {summary.Levels} levels written to {options.Output}");

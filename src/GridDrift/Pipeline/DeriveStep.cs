@@ -16,7 +16,9 @@ public sealed record DeriveOptions(
     string? Variable = null,
     string? SurfacePressure = null,
     ClassicVariant? Format = null,
-    string Command = "griddrift derive");
+    string Command = "griddrift derive",
+    string? Temperature = null,
+    string? Pressure = null);
 
 public sealed record DeriveSummary(int Frames, int Levels, string Variable);
 
@@ -31,8 +33,9 @@ public static class DeriveStep
 {
     public static DeriveSummary Run(DeriveOptions o, IProgress<(int, int)>? progress = null)
     {
+        if (o.Quantity is "relative-humidity" or "specific-humidity") return PointWise(o, progress);
         if (o.Quantity != "column-water-vapour")
-            throw new BadInputException(null, null, $"derive {o.Quantity}: only column-water-vapour is available yet (relative-humidity and specific-humidity are not)");
+            throw new BadInputException(null, null, $"derive {o.Quantity}: choose column-water-vapour, relative-humidity or specific-humidity");
         string variable = o.Variable ?? FindBy(o.Inputs[0], "specific_humidity");
         using var source = FrameSource.Open(o.Inputs, variable);
         var reader = source.Template;
@@ -102,6 +105,94 @@ public static class DeriveStep
         finally
         {
             surface?.Dispose();
+        }
+    }
+
+    /// <summary>
+    /// relative-humidity from specific humidity (--var), temperature (--temperature) and pressure;
+    /// specific-humidity from dew point (--var) and pressure. The pressure is a variable of the same
+    /// shape (--pressure) or, by default, the humidity's vertical coordinate.
+    /// </summary>
+    static DeriveSummary PointWise(DeriveOptions o, IProgress<(int, int)>? progress)
+    {
+        bool rh = o.Quantity == "relative-humidity";
+        string variable = o.Variable ?? FindBy(o.Inputs[0], rh ? "specific_humidity" : "dew_point_temperature");
+        using var source = FrameSource.Open(o.Inputs, variable);
+        var reader = source.Template;
+        var data = reader.RequireVariable(variable);
+        var extra = new List<FrameSource>();
+        try
+        {
+            FrameSource Companion(string name, string what)
+            {
+                var f = FrameSource.Open(o.Inputs, name);
+                extra.Add(f);
+                if (f.FrameLength != source.FrameLength || f.FrameCount != source.FrameCount)
+                    throw new BadInputException(f.Files[0], name, $"{what} has {f.FrameCount} frames of {f.FrameLength} values; {variable} has {source.FrameCount} of {source.FrameLength}");
+                return f;
+            }
+            FrameSource? temperature = rh ? Companion(o.Temperature ?? FindBy(o.Inputs[0], "air_temperature"), "the temperature") : null;
+            FrameSource? pressureField = o.Pressure is { } pn ? Companion(pn, "the pressure") : null;
+            double[]? levels = null;
+            int cells = source.FrameLength;
+            if (pressureField is null)
+            {
+                int vertical = source.Axes.IndexOf(AxisRole.Vertical);
+                var levelVar = vertical >= 0 ? source.Axes.DimensionCoordinates[vertical] : null;
+                if (levelVar is null || source.FrameDimensions[0].Name != levelVar.Name)
+                    throw new BadInputException(source.Files[0], variable, "needs a pressure: name a pressure variable with --pressure, or give pressure levels as its first dimension after time");
+                levels = reader.ReadAllDoubles(levelVar);
+                Convert(levels, levelVar.Attributes.Text("units") ?? "Pa", "Pa", source.Files[0], levelVar.Name);
+                cells = source.FrameLength / levels.Length;
+            }
+            double pScale = pressureField is null ? 1 : Converter(pressureField.Template.RequireVariable(o.Pressure!).Attributes.Text("units") ?? "Pa", "Pa", pressureField.Files[0], o.Pressure!).Scale;
+            var inputUnits = Converter(data.Attributes.Text("units") ?? (rh ? "1" : "K"), rh ? "kg kg-1" : "K", source.Files[0], variable);
+            var tUnits = temperature is null ? null : Converter(temperature.Template.RequireVariable(temperature.VariableName).Attributes.Text("units") ?? "K", "K", temperature.Files[0], temperature.VariableName);
+
+            string name = rh ? "hur" : "hus";
+            var template = FieldTemplate.From(source);
+            var calendar = reader.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
+            var globals = Provenance.For(o.Command, source.Files).AsKeyValues(new Dictionary<string, string>
+            {
+                ["title"] = rh ? $"Relative humidity from {variable}" : $"Specific humidity from {variable}",
+                ["derivation"] = (rh ? "RH = 100 e / e_s(T), e = q p / (0.622 + 0.378 q)" : "q = 0.622 e / (p - 0.378 e), e = e_s(dew point)") +
+                    "; e_s over liquid water by Bolton (1980) eq. 10, 6.112 exp(17.67 T / (T + 243.5)) hPa, T in degC, within 0.1 % for -30 to 35 degC",
+            });
+            using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, globals);
+            var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
+                [NcAttribute.Text("standard_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text), NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T")]);
+            var output = w.Writer.AddVariable(name, NcType.Float, w.FieldDimensions(), template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping")
+                .Append(NcAttribute.Text("standard_name", rh ? "relative_humidity" : "specific_humidity"))
+                .Append(NcAttribute.Text("long_name", rh ? "relative humidity over liquid water" : $"specific humidity from the dew point {variable}"))
+                .Append(NcAttribute.Text("units", rh ? "%" : "kg kg-1"))
+                .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
+            w.EndDefinitions();
+            var x = new float[source.FrameLength];
+            var t2 = new float[source.FrameLength];
+            var p2 = new float[source.FrameLength];
+            var result = new float[source.FrameLength];
+            for (int f = 0; f < source.FrameCount; f++)
+            {
+                source.ReadFrame(f, x);
+                temperature?.ReadFrame(f, t2);
+                pressureField?.ReadFrame(f, p2);
+                for (int i = 0; i < x.Length; i++)
+                {
+                    double p = pressureField is null ? levels![i / cells] : p2[i] * pScale;
+                    double v = inputUnits.Convert(x[i]);
+                    double r = rh ? Moisture.RelativeHumidity(v, tUnits!.Convert(t2[i]), p) : Moisture.SpecificHumidityFromDewPoint(v, p);
+                    result[i] = double.IsFinite(r) ? (float)r : ClimatologyNetCdfWriter.Fill;
+                }
+                w.Writer.WriteRecord<double>(time, f, [source.TimeUnits.Encode(source.Times[f])]);
+                w.Writer.WriteRecord<float>(output, f, result);
+                progress?.Report((f + 1, source.FrameCount));
+            }
+            w.Commit();
+            return new DeriveSummary(source.FrameCount, levels?.Length ?? 1, name);
+        }
+        finally
+        {
+            foreach (var f in extra) f.Dispose();
         }
     }
 

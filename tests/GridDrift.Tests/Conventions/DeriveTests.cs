@@ -24,10 +24,30 @@ public class DeriveTests
     }
 
     [Fact]
-    public void A_quantity_not_yet_available_is_refused_by_name()
+    public void An_unknown_quantity_is_refused_by_name()
     {
-        var outcome = CliRun.Run("derive", "relative-humidity", "x.nc", "--out", "y.nc");
+        var outcome = CliRun.Run("derive", "cloud-water", "x.nc", "--out", "y.nc");
         Assert.Equal(2, outcome.ExitCode);
-        Assert.Contains("relative-humidity", Assert.Single(outcome.StderrLines));
+        Assert.Contains("cloud-water", Assert.Single(outcome.StderrLines));
+    }
+
+    [InteropTheory(Needs.PythonNetcdf)]
+    [InlineData("relative-humidity", "rh", "%", 4)]
+    [InlineData("specific-humidity", "q", "kg kg-1", 3)]
+    public void Humidity_conversions_equal_numpy_from_the_published_formulas(string quantity, string kind, string units, int rank)
+    {
+        // numpy evaluates Bolton (1980) eq. 10 and the definitions of e and q (Interop/scripts/humidity_reference.py)
+        using var dir = new TempFolder();
+        string input = dir.File("model.nc"), output = dir.File("out.nc");
+        ExternalTools.RunPython("humidity_reference.py", "make", input);
+        var args = quantity == "relative-humidity"
+            ? new[] { "derive", quantity, input, "--out", output, "--quiet" }
+            : new[] { "derive", quantity, input, "--pressure", "ps", "--out", output, "--quiet" };
+        var outcome = CliRun.Run(args);
+        Assert.True(outcome.ExitCode == 0, outcome.Stderr);
+        var r = JsonDocument.Parse(ExternalTools.RunPython("humidity_reference.py", kind, input, output)).RootElement;
+        Assert.Equal(units, r.GetProperty("units").GetString());
+        Assert.Equal(rank, r.GetProperty("shape").GetArrayLength());
+        Assert.True(r.GetProperty("max_rel").GetDouble() < 1e-6, $"{quantity}: largest relative difference from numpy {r.GetProperty("max_rel").GetDouble():E2}");
     }
 }
