@@ -19,9 +19,10 @@ public sealed record RegridOptions(
     ClassicVariant? Format = null,
     string Command = "griddrift regrid",
     string? Calendar = null,
-    string? Resample = null);
+    string? Resample = null,
+    string? Weights = null);
 
-public sealed record RegridSummary(int Frames, int Written, int Dropped, Grid Target, RemapWeights Weights);
+public sealed record RegridSummary(int Frames, int Written, int Dropped, Grid Target, RemapWeights Weights, bool WeightsReused = false);
 
 /// <summary>
 /// `griddrift regrid`: each frame remapped onto a target grid (`regular:D`, `regular:DLATxDLON` or
@@ -39,17 +40,15 @@ public static class RegridStep
         Grid target;
         try { target = TargetGrids.TryParse(o.To) ?? ReadTarget(o.To); }
         catch (FormatException e) { throw new BadInputException(null, null, "--to " + e.Message); }
-        RemapWeights weights;
-        try
-        {
-            weights = o.Method switch
-            {
-                "conservative" => ConservativeRemap.Build(grid, target),
-                "bilinear" => BilinearRemap.Build(grid, target),
-                _ => throw new BadInputException(null, null, $"--method {o.Method}: choose bilinear or conservative"),
-            };
-        }
-        catch (NotSupportedException e) { throw new BadInputException(source.Files[0], o.Variable, e.Message); }
+        if (o.Method is not ("conservative" or "bilinear")) throw new BadInputException(null, null, $"--method {o.Method}: choose bilinear or conservative");
+        if (!grid.IsRectilinear || !target.IsRectilinear)
+            throw new BadInputException(source.Files[0], o.Variable, "remapping needs latitude-longitude grids on both sides (curvilinear and geostationary sources are not supported yet)");
+        RemapWeights? weights = o.Weights is { } saved && File.Exists(saved) ? WeightsFile.Load(saved, grid, target, o.Method) : null;
+        bool reused = weights is not null;
+        if (o.Weights is { } existing && File.Exists(existing) && !reused)
+            throw new BadInputException(existing, null, $"holds weights for other grids or another method than {o.Method}: remove it or name another file");
+        weights ??= o.Method == "conservative" ? ConservativeRemap.Build(grid, target) : BilinearRemap.Build(grid, target);
+        if (o.Weights is { } path && !reused) WeightsFile.Save(path, weights, grid, target);
         var data = source.Template.RequireVariable(o.Variable);
         var template = FieldTemplate.ForGrid(target, data.Attributes);
         var calendar = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
@@ -131,7 +130,7 @@ public static class RegridStep
         }
         means?.Flush();
         w.Commit();
-        return new RegridSummary(source.FrameCount, written, dropped, target, weights);
+        return new RegridSummary(source.FrameCount, written, dropped, target, weights, reused);
     }
 
     static Grid ReadTarget(string path)
