@@ -27,6 +27,8 @@ internal static class CommonOptions
 
     public static Option<string?> Format() => new("--format") { Description = "NetCDF output format: cdf2 (default) or cdf5" };
 
+    public static Option<string?> Units() => new("--units") { Description = "deliver the variable in these units (UDUNITS-style, e.g. degC, g/kg, hPa)" };
+
     public static Option<bool> Quiet() => new("--quiet") { Description = "no progress or summary on stderr" };
 
     public static ClassicVariant? ParseFormat(string? text) => text?.ToLowerInvariant() switch

@@ -23,11 +23,12 @@ public static class StatsCommand
         var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
         var radius = CommonOptions.EarthRadius();
         var format = CommonOptions.Format();
+        var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("stats", "Area-weighted mean, standard deviation, minimum, maximum, quantiles and valid fraction per frame and region.\n\n" +
             "Example:\n  griddrift stats cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --out s.nc --table s.parquet")
         {
-            files, variable, regions, stat, minValid, output, table, radius, format, quiet,
+            files, variable, regions, stat, minValid, output, table, radius, format, units, quiet,
         };
         command.SetAction(parse =>
         {
@@ -42,7 +43,7 @@ public static class StatsCommand
             }
             var options = new StatsOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!,
                 statistics, parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(minValid), parse.GetValue(radius),
-                CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("stats", commandLine));
+                CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("stats", commandLine)) with { Units = parse.GetValue(units) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => StatsStep.Run(options, progress));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine(

@@ -186,8 +186,35 @@ public sealed class FrameSource : IDisposable
         return lo;
     }
 
+    GridDrift.Conventions.Units.UnitConverter? _convert;
+
+    /// <summary>The units frames are delivered in: the variable's own, or those of <see cref="ConvertUnits"/>.</summary>
+    public string Units => _convert?.To.Text ?? (Template.RequireVariable(VariableName).Attributes.Text("units") ?? "1");
+
+    /// <summary>Delivers every frame in <paramref name="units"/> (e.g. `--units degC` for a field in K); refuses units of another dimension.</summary>
+    public void ConvertUnits(string units)
+    {
+        string from = Template.RequireVariable(VariableName).Attributes.Text("units") ?? "1";
+        try
+        {
+            var c = GridDrift.Conventions.Units.UnitConverter.Between(from, units);
+            _convert = c.Scale == 1 && c.Offset == 0 ? null : c;
+            if (_convert is null && from != units) _convert = c; // keep the requested spelling for the product
+        }
+        catch (FormatException e)
+        {
+            throw new BadInputException(Files[0], VariableName, "--units: " + e.Message);
+        }
+    }
+
     /// <summary>Reads and decodes frame <paramref name="index"/> (physical units, NaN where missing).</summary>
     public void ReadFrame(int index, Span<float> destination)
+    {
+        ReadDecoded(index, destination);
+        _convert?.Convert(destination);
+    }
+
+    void ReadDecoded(int index, Span<float> destination)
     {
         if (destination.Length != FrameLength) throw new ArgumentException($"frame buffer needs {FrameLength} values");
         int p = PartOf(index);

@@ -25,7 +25,8 @@ public sealed record AnomaliesOptions(
     double MinValid = 0.5,
     ClassicVariant? Format = null,
     string Command = "griddrift anomalies",
-    int Workers = 0);
+    int Workers = 0,
+    string? Units = null);
 
 public sealed record AnomaliesSummary(int Frames, int FramesWithoutSlot, string? Series, IReadOnlyList<string> Warnings);
 
@@ -40,6 +41,7 @@ public static class AnomaliesStep
     public static AnomaliesSummary Run(AnomaliesOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
         using var source = FrameSource.Open(o.Inputs, o.Variable);
+        if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var clim = ClimatologyFile.Read(o.Climatology, o.Variable);
         var warnings = new List<string>(source.Warnings);
         if (clim.Cells != source.FrameLength)
@@ -48,7 +50,8 @@ public static class AnomaliesStep
             throw new BadInputException(o.Climatology, "time",
                 $"is in the {clim.Scheme.Calendar.CfName()} calendar but {source.Files[0]} is in {source.Calendar.CfName()}: {clim.Scheme.Kind.Name()} slots differ between them");
         var template = FieldTemplate.From(source);
-        string units = template.DataAttribute("units") ?? "1";
+        string units = source.Units;
+        clim.ConvertTo(units); // a climatology made in other units (K against degC) still fits
         string anomalyUnits = o.Kind switch { AnomalyKind.Absolute => units, AnomalyKind.Relative => "%", _ => "1" };
         string longName = $"{o.Kind.Name()} anomaly of {template.DataAttribute("long_name") ?? o.Variable} from its {clim.Scheme.Kind.Name()} climatology";
         var provenance = Provenance.For(o.Command, source.Files.Append(o.Climatology).ToArray());

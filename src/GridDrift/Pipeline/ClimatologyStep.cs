@@ -18,7 +18,8 @@ public sealed record ClimatologyOptions(
     string? Smooth = null,
     ClassicVariant? Format = null,
     string Command = "griddrift climatology",
-    int Workers = 0);
+    int Workers = 0,
+    string? Units = null);
 
 public sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlots, TimePeriod Base, IReadOnlyList<string> Warnings);
 
@@ -35,6 +36,7 @@ public static class ClimatologyStep
     public static ClimatologySummary Run(ClimatologyOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
         using var source = FrameSource.Open(o.Inputs, o.Variable);
+        if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var warnings = new List<string>(source.Warnings);
         var calendar = source.Calendar;
         Smoothing? smoothing = null;

@@ -20,7 +20,8 @@ public sealed record RegridOptions(
     string Command = "griddrift regrid",
     string? Calendar = null,
     string? Resample = null,
-    string? Weights = null);
+    string? Weights = null,
+    string? Units = null);
 
 public sealed record RegridSummary(int Frames, int Written, int Dropped, Grid Target, RemapWeights Weights, bool WeightsReused = false);
 
@@ -34,6 +35,7 @@ public static class RegridStep
     public static RegridSummary Run(RegridOptions o, IProgress<(int, int)>? progress = null)
     {
         using var source = FrameSource.Open(o.Inputs, o.Variable);
+        if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var grid = GridReader.Read(source.Template, source.Axes);
         if (grid.CellCount != source.FrameLength)
             throw new BadInputException(source.Files[0], o.Variable, "frames with dimensions other than time, latitude and longitude cannot be regridded yet");
@@ -50,7 +52,7 @@ public static class RegridStep
         weights ??= o.Method == "conservative" ? ConservativeRemap.Build(grid, target) : BilinearRemap.Build(grid, target);
         if (o.Weights is { } path && !reused) WeightsFile.Save(path, weights, grid, target);
         var data = source.Template.RequireVariable(o.Variable);
-        var template = FieldTemplate.ForGrid(target, data.Attributes);
+        var template = FieldTemplate.ForGrid(target, data.Attributes.Where(a => a.Name != "units").Append(NcAttribute.Text("units", source.Units)));
         var calendar = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
         var toCalendar = source.Calendar;
         if (o.Calendar is { } wanted)

@@ -21,7 +21,8 @@ public sealed record StatsOptions(
     double EarthRadius = Sphere.MeanEarthRadius,
     ClassicVariant? Format = null,
     string Command = "griddrift stats",
-    int Workers = 0);
+    int Workers = 0,
+    string? Units = null);
 
 /// <summary>What a stats run did, for the summary line and for tests.</summary>
 public sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionMask Mask);
@@ -37,6 +38,7 @@ public static class StatsStep
     {
         if (o.MinValid is < 0 or > 1) throw new ArgumentOutOfRangeException(nameof(o.MinValid), "--min-valid must be between 0 and 1");
         using var source = FrameSource.Open(o.Inputs, o.Variable);
+        if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var grid = GridReader.Read(source.Template, source.Axes, o.EarthRadius);
         if (source.FrameLength != grid.CellCount)
             throw new BadInputException(source.Files[0], o.Variable,
@@ -46,7 +48,7 @@ public static class StatsStep
         var mask = RegionMaskBuilder.Build(grid, shapes);
         var plan = SeparablePlan.TryBuild(grid, shapes);
         var statistics = o.Statistics.Where(s => s != RegionStatistic.Valid).ToArray();
-        var units = source.Template.RequireVariable(o.Variable).Attributes.Text("units") ?? "1";
+        var units = source.Units;
         var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea, statistics.Select(s => Quantity(s, o.Variable, units)).ToList(),
             source.TimeUnits, source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard",
             Provenance.For(o.Command, source.Files),

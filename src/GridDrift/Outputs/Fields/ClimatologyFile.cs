@@ -14,6 +14,18 @@ public sealed class ClimatologyFile
     public required float[] Std { get; init; }
     public required int Cells { get; init; }
     public required string BasePeriod { get; init; }
+    public required string Units { get; init; }
+
+    /// <summary>Expresses the climatology in other units (the mean fully, the standard deviation by the scale only).</summary>
+    public void ConvertTo(string units)
+    {
+        if (units == Units) return;
+        GridDrift.Conventions.Units.UnitConverter c;
+        try { c = GridDrift.Conventions.Units.UnitConverter.Between(Units, units); }
+        catch (FormatException e) { throw new BadInputException(Path, null, "units of the climatology: " + e.Message); }
+        c.Convert(Mean);
+        for (int i = 0; i < Std.Length; i++) Std[i] = (float)(Std[i] * c.Scale);
+    }
 
     public ReadOnlySpan<float> MeanOf(int slot) => Mean.AsSpan(slot * Cells, Cells);
     public ReadOnlySpan<float> StdOf(int slot) => Std.AsSpan(slot * Cells, Cells);
@@ -42,6 +54,7 @@ public sealed class ClimatologyFile
         {
             Path = path, Scheme = scheme, Mean = mean, Std = std, Cells = mean.Length / scheme.SlotCount,
             BasePeriod = global.Text("climatology_base_period") ?? "",
+            Units = reader.RequireVariable(variable).Attributes.Text("units") ?? "1",
         };
     }
 

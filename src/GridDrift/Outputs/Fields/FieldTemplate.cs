@@ -55,7 +55,8 @@ public sealed class FieldTemplate
         var copies = chosen.Select(v => Copy(reader, v)).ToList();
         if (source.Axes.GridMapping is { } gm)
             copies.Add(new CopiedVariable(gm.Name, [], gm.Attributes.Where(a => !Packing.Contains(a.Name)).Select(Classic).ToList(), [0]));
-        var dataAttributes = data.Attributes.Where(a => Descriptive.Contains(a.Name)).Select(Classic).ToList();
+        var dataAttributes = data.Attributes.Where(a => Descriptive.Contains(a.Name) && a.Name != "units").Select(Classic).ToList();
+        dataAttributes.Add(NcAttribute.Text("units", source.Units));
         return new FieldTemplate(dims, frameDims, copies, dataAttributes);
     }
 
