@@ -10,12 +10,14 @@ public static class SimilarityCommand
 {
     public static Command Build(string[] commandLine)
     {
-        var files = CommonOptions.Files();
+        var files = new Argument<string[]>("FILE") { Description = "input NetCDF files or globs, one record split along time (or use --candidate)", Arity = ArgumentArity.ZeroOrMore };
+        var referenceFiles = new Option<string[]>("--reference") { Description = "compare against this dataset (e.g. observations) at the times both hold, on the same grid", AllowMultipleArgumentsPerToken = true };
+        var candidateFiles = new Option<string[]>("--candidate") { Description = "the dataset compared with --reference (e.g. regridded model output); instead of FILE", AllowMultipleArgumentsPerToken = true };
         var variable = CommonOptions.Variable();
         var regions = CommonOptions.Regions();
         var metric = new Option<string>("--metric")
         {
-            Description = "metrics, comma-separated: ssim, vif, corr, rmsd, mean-abs-change (default: ssim,corr,rmsd,mean-abs-change)",
+            Description = "metrics, comma-separated: ssim, vif, corr, rmsd, mean-abs-change, bias (default: ssim,corr,rmsd,mean-abs-change)",
             DefaultValueFactory = _ => "ssim,corr,rmsd,mean-abs-change",
         };
         var lag = new Option<int>("--lag") { Description = "compare each frame with the one LAG steps earlier", DefaultValueFactory = _ => 1 };
@@ -29,9 +31,10 @@ public static class SimilarityCommand
         var format = CommonOptions.Format();
         var quiet = CommonOptions.Quiet();
         var command = new Command("similarity", "Frame-to-frame structural similarity (SSIM, VIF), correlation, RMS difference and mean absolute change per region.\n\n" +
-            "Example:\n  griddrift similarity cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --metric ssim,vif,corr,rmsd,mean-abs-change --out sim.nc --table sim.parquet")
+            "Example:\n  griddrift similarity cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --metric ssim,vif,corr,rmsd,mean-abs-change --out sim.nc --table sim.parquet\n" +
+            "  griddrift similarity --reference obs.nc --candidate model_on_obs_grid.nc --var tcwv --regions global --metric bias,rmsd,corr,ssim --out compare.nc")
         {
-            files, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, quiet,
+            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, quiet,
         };
         command.SetAction(parse =>
         {
@@ -44,9 +47,17 @@ public static class SimilarityCommand
             {
                 throw new BadInputException(null, null, e.Message);
             }
-            var options = new SimilarityOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!, metrics,
+            var reference = parse.GetValue(referenceFiles) ?? [];
+            var candidate = parse.GetValue(candidateFiles) ?? [];
+            var positional = parse.GetValue(files) ?? [];
+            if (reference.Length > 0 && candidate.Length == 0 && positional.Length == 0) throw new BadInputException(null, null, "--reference needs --candidate (or FILE)");
+            if (candidate.Length > 0 && reference.Length == 0) throw new BadInputException(null, null, "--candidate needs --reference");
+            var inputs = candidate.Length > 0 ? candidate : positional;
+            if (inputs.Length == 0) throw new BadInputException(null, null, "no input files: give FILE... or --reference and --candidate");
+            var options = new SimilarityOptions(InputPaths.Expand(inputs), parse.GetValue(variable)!, parse.GetValue(regions)!, metrics,
                 parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(lag), parse.GetValue(range), parse.GetValue(acrossGaps), parse.GetValue(against),
-                parse.GetValue(minValid), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("similarity", commandLine));
+                parse.GetValue(minValid), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("similarity", commandLine),
+                Reference: reference.Length > 0 ? InputPaths.Expand(reference) : null);
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "pairs", progress => SimilarityStep.Run(options, progress));
             var error = parse.InvocationConfiguration.Error;
             if (summary.CellsOutsideRange > 0)

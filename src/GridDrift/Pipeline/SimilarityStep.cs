@@ -28,7 +28,8 @@ public sealed record SimilarityOptions(
     double EarthRadius = Sphere.MeanEarthRadius,
     ClassicVariant? Format = null,
     string Command = "griddrift similarity",
-    int Workers = 0);
+    int Workers = 0,
+    IReadOnlyList<string>? Reference = null);
 
 public sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions);
 
@@ -58,16 +59,32 @@ public static class SimilarityStep
         bool periodic = grid.IsRectilinear && HorizontalGrid.FromAxes(Latitudes(grid), Longitudes(grid)).IsGlobalInLongitude;
 
         float[]? reference = o.Against is null ? null : ReadReference(o.Against, o.Variable, grid);
-        var pairs = Pairs(source, o.Lag, o.AcrossGaps, reference is not null, out var skipped);
+        using var observed = o.Reference is { Count: > 0 } ? FrameSource.Open(o.Reference, o.Variable) : null;
+        List<(int Earlier, int Later)> pairs;
+        List<(CfTime Earlier, CfTime Later)> skipped;
+        if (observed is not null)
+        {
+            if (observed.FrameLength != source.FrameLength)
+                throw new BadInputException(observed.Files[0], o.Variable, $"frames have {observed.FrameLength} values, the candidate's {source.FrameLength}: regrid the candidate onto the reference grid first");
+            if (observed.Calendar != source.Calendar)
+                throw new BadInputException(observed.Files[0], observed.Axes.Time!.Name, $"is in the {observed.Calendar.CfName()} calendar and the candidate in {source.Calendar.CfName()}: align them first (regrid --calendar)");
+            var byTime = new Dictionary<long, int>();
+            for (int i = 0; i < observed.FrameCount; i++) byTime[observed.Times[i].Micros] = i;
+            pairs = Enumerable.Range(0, source.FrameCount).Where(i => byTime.ContainsKey(source.Times[i].Micros)).Select(i => (byTime[source.Times[i].Micros], i)).ToList();
+            skipped = [];
+            if (pairs.Count == 0) throw new BadInputException(source.Files[0], o.Variable, "no time step is shared with the reference");
+        }
+        else pairs = Pairs(source, o.Lag, o.AcrossGaps, reference is not null, out skipped);
 
         string units = variable.Attributes.Text("units") ?? "1";
         var quantities = o.Metrics.Select(m => Quantity(m, o.Variable, units)).ToList();
         var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea, quantities, source.TimeUnits,
             source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard",
-            Provenance.For(o.Command, o.Against is null ? source.Files : [.. source.Files, o.Against]),
+            Provenance.For(o.Command, observed is not null ? [.. observed.Files, .. source.Files] : o.Against is null ? source.Files : [.. source.Files, o.Against]),
             new Dictionary<string, string>
             {
-                ["title"] = reference is null ? $"Frame-to-frame similarity of {o.Variable} per region (lag {o.Lag})" : $"Similarity of each frame of {o.Variable} to {Path.GetFileName(o.Against)}",
+                ["title"] = observed is not null ? $"Comparison of {o.Variable}: candidate {Path.GetFileName(source.Files[0])} against reference {Path.GetFileName(observed.Files[0])}"
+                    : reference is null ? $"Frame-to-frame similarity of {o.Variable} per region (lag {o.Lag})" : $"Similarity of each frame of {o.Variable} to {Path.GetFileName(o.Against)}",
                 ["data_range"] = $"{range.Low.ToString("R", CultureInfo.InvariantCulture)}:{range.High.ToString("R", CultureInfo.InvariantCulture)} ({range.Source})",
                 ["lag"] = o.Lag.ToString(CultureInfo.InvariantCulture),
                 ["earth_radius_m"] = o.EarthRadius.ToString("R", CultureInfo.InvariantCulture),
@@ -76,10 +93,12 @@ public static class SimilarityStep
                 ["vif_domain"] = "pixel-domain multi-scale VIF on each region's bounding index box, values rescaled to 0-255 over the data range",
                 ["skipped_pairs"] = skipped.Count == 0 ? "none" : string.Join("; ", skipped.Select(s => $"{s.Earlier.ToIsoString()}/{s.Later.ToIsoString()}")),
             },
-            HasTimeBounds: reference is null);
+            HasTimeBounds: reference is null && observed is null);
 
         using var products = new SeriesProducts(o.Output, o.Table, layout, o.Format);
-        long outside = Stream(source, grid, mask, plan, range, periodic, o, reference, pairs, products, progress);
+        long outside = observed is not null
+            ? Compare(observed, source, grid, mask, plan, range, periodic, o, pairs, products, progress)
+            : Stream(source, grid, mask, plan, range, periodic, o, reference, pairs, products, progress);
         products.Complete();
         return new SimilaritySummary(pairs.Count, skipped, range, outside, mask.Count);
     }
@@ -152,7 +171,7 @@ public static class SimilarityStep
             MapReducer = new RegionReducer(mask, [RegionStatistic.Mean, RegionStatistic.Valid], plan),
             Map = wantSsim ? new float[grid.CellCount] : [],
             MapStats = new double[mask.Count * 2],
-            PairStats = new double[mask.Count * 4],
+            PairStats = new double[mask.Count * PairReducer.Stride],
             Values = new double[mask.Count * nq],
             Valid = new double[mask.Count],
         }).ToArray();
@@ -204,6 +223,45 @@ public static class SimilarityStep
         }
     }
 
+    /// <summary>Reference against candidate at each shared time: frames read and compared on the worker team, written in time order.</summary>
+    static long Compare(FrameSource observed, FrameSource candidate, Grid grid, RegionMask mask, SeparablePlan? plan, DataRange range, bool periodic, SimilarityOptions o,
+        List<(int Earlier, int Later)> pairs, ISeriesSink sink, IProgress<(int, int)>? progress)
+    {
+        int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), nq = o.Metrics.Count;
+        bool wantVif = o.Metrics.Contains(SimilarityMetric.Vif);
+        var boxes = wantVif ? RegionBox.Of(grid, mask) : [];
+        var pool = Enumerable.Range(0, workers).Select(_ => new Worker
+        {
+            Ssim = new Ssim(grid.Rows, grid.Columns, periodic, range.Low, range.High),
+            Vif = new Vif(),
+            MapReducer = new RegionReducer(mask, [RegionStatistic.Mean, RegionStatistic.Valid], plan),
+            Map = o.Metrics.Contains(SimilarityMetric.Ssim) ? new float[grid.CellCount] : [],
+            MapStats = new double[mask.Count * 2],
+            PairStats = new double[mask.Count * PairReducer.Stride],
+            Values = new double[mask.Count * nq],
+            Valid = new double[mask.Count],
+        }).ToArray();
+        var a = Enumerable.Range(0, workers).Select(_ => new float[grid.CellCount]).ToArray();
+        var b = Enumerable.Range(0, workers).Select(_ => new float[grid.CellCount]).ToArray();
+        int batch = 0;
+        Action<int> work = w =>
+        {
+            var (r, c) = pairs[batch + w];
+            observed.ReadFrame(r, a[w]);
+            candidate.ReadFrame(c, b[w]);
+            Compute(pool[w], o, mask, boxes, grid.Columns, range, a[w], b[w]);
+        };
+        using var team = new WorkerTeam(workers);
+        for (batch = 0; batch < pairs.Count; batch += workers)
+        {
+            int n = Math.Min(workers, pairs.Count - batch);
+            team.Run(n, work);
+            for (int w = 0; w < n; w++) sink.Write(candidate.Times[pairs[batch + w].Later], pool[w].Values, pool[w].Valid);
+            progress?.Report((batch + n, pairs.Count));
+        }
+        return pool.Sum(w => w.Outside);
+    }
+
     static void Compute(Worker w, SimilarityOptions o, RegionMask mask, RegionBox[] boxes, int gridColumns, DataRange range, float[] a, float[] b)
     {
         int nq = o.Metrics.Count;
@@ -216,7 +274,7 @@ public static class SimilarityStep
         }
         for (int r = 0; r < mask.Count; r++)
         {
-            double valid = w.PairStats[4 * r + 3];
+            double valid = w.PairStats[PairReducer.Stride * r + 3];
             w.Valid[r] = valid;
             bool drop = !(valid >= o.MinValid) || valid == 0;
             for (int q = 0; q < nq; q++)
@@ -224,9 +282,10 @@ public static class SimilarityStep
                 double value = o.Metrics[q] switch
                 {
                     SimilarityMetric.Ssim => w.MapStats[2 * r + 1] >= o.MinValid ? w.MapStats[2 * r] : double.NaN,
-                    SimilarityMetric.Corr => w.PairStats[4 * r],
-                    SimilarityMetric.Rmsd => w.PairStats[4 * r + 1],
-                    SimilarityMetric.MeanAbsChange => w.PairStats[4 * r + 2],
+                    SimilarityMetric.Corr => w.PairStats[PairReducer.Stride * r],
+                    SimilarityMetric.Rmsd => w.PairStats[PairReducer.Stride * r + 1],
+                    SimilarityMetric.MeanAbsChange => w.PairStats[PairReducer.Stride * r + 2],
+                    SimilarityMetric.Bias => w.PairStats[PairReducer.Stride * r + 4],
                     SimilarityMetric.Vif => drop ? double.NaN : VifOfBox(w.Vif, boxes[r], gridColumns, a, b, range, o.MinValid),
                     _ => double.NaN,
                 };
@@ -271,6 +330,7 @@ public static class SimilarityStep
         SimilarityMetric.Vif => new("vif", $"visual information fidelity of {variable} (later frame against earlier) on the region's bounding box", "1", ""),
         SimilarityMetric.Corr => new("corr", $"area-weighted Pearson correlation of {variable} between the paired frames", "1", ""),
         SimilarityMetric.Rmsd => new("rmsd", $"area-weighted root-mean-square difference of {variable} between the paired frames", units, ""),
+        SimilarityMetric.Bias => new("bias", $"area-weighted mean difference of {variable}, later (candidate) minus earlier (reference)", units, "area: mean"),
         _ => new("mean_abs_change", $"area-weighted mean absolute change of {variable} between the paired frames", units, "area: mean"),
     };
 }

@@ -5,20 +5,22 @@ namespace GridDrift.Similarity;
 /// <summary>
 /// Area-weighted pair statistics of two frames per region, over the cells valid in both:
 /// Pearson correlation Σw(a−ā)(b−b̄)/√(Σw(a−ā)²·Σw(b−b̄)²), RMS difference √(Σw(b−a)²/Σw),
-/// mean absolute change Σw|b−a|/Σw, and the valid fraction Σw/region area. Float64 sums,
+/// mean absolute change Σw|b−a|/Σw, the bias Σw(b−a)/Σw, and the valid fraction Σw/region area. Float64 sums,
 /// shifted per region by its first valid earlier value, so small regional variances keep
 /// their digits whatever the regional mean.
 /// </summary>
 public static class PairReducer
 {
-    /// <summary>Per region r writes output[4r … 4r+3] = corr, rmsd, mean absolute change, valid fraction.</summary>
+    public const int Stride = 5;
+
+    /// <summary>Per region r writes output[5r … 5r+4] = corr, rmsd, mean absolute change, valid fraction, bias (later − earlier).</summary>
     public static void Reduce(RegionMask mask, ReadOnlySpan<float> earlier, ReadOnlySpan<float> later, Span<double> output)
     {
         for (int r = 0; r < mask.Count; r++)
         {
             var cells = mask.CellsOf(r);
             var areas = mask.AreasOf(r);
-            double sw = 0, sa = 0, sb = 0, saa = 0, sbb = 0, sab = 0, sabs = 0, sdd = 0, shift = double.NaN;
+            double sw = 0, sa = 0, sb = 0, saa = 0, sbb = 0, sab = 0, sabs = 0, sdd = 0, sd = 0, shift = double.NaN;
             for (int k = 0; k < cells.Length; k++)
             {
                 float x = earlier[cells[k]], y = later[cells[k]];
@@ -27,12 +29,12 @@ public static class PairReducer
                 double w = areas[k], a = x - shift, b = y - shift, d = b - a;
                 sw += w; sa += w * a; sb += w * b;
                 saa += w * a * a; sbb += w * b * b; sab += w * a * b;
-                sabs += w * Math.Abs(d); sdd += w * d * d;
+                sabs += w * Math.Abs(d); sdd += w * d * d; sd += w * d;
             }
-            var slot = output.Slice(4 * r, 4);
+            var slot = output.Slice(Stride * r, Stride);
             if (sw <= 0)
             {
-                slot[0] = slot[1] = slot[2] = double.NaN;
+                slot[0] = slot[1] = slot[2] = slot[4] = double.NaN;
                 slot[3] = 0;
                 continue;
             }
@@ -42,6 +44,7 @@ public static class PairReducer
             slot[1] = Math.Sqrt(sdd / sw);
             slot[2] = sabs / sw;
             slot[3] = mask.RegionArea[r] > 0 ? sw / mask.RegionArea[r] : double.NaN;
+            slot[4] = sd / sw;
         }
     }
 }

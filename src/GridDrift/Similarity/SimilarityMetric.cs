@@ -8,6 +8,8 @@ public enum SimilarityMetric
     Corr,
     Rmsd,
     MeanAbsChange,
+    /// <summary>Area-weighted mean of later − earlier (candidate − reference in a comparison).</summary>
+    Bias,
 }
 
 public static class SimilarityMetrics
@@ -18,6 +20,7 @@ public static class SimilarityMetrics
         SimilarityMetric.Vif => "vif",
         SimilarityMetric.Corr => "corr",
         SimilarityMetric.Rmsd => "rmsd",
+        SimilarityMetric.Bias => "bias",
         _ => "mean_abs_change",
     };
 
@@ -28,6 +31,7 @@ public static class SimilarityMetrics
         "corr" => SimilarityMetric.Corr,
         "rmsd" => SimilarityMetric.Rmsd,
         "mean-abs-change" or "mean_abs_change" => SimilarityMetric.MeanAbsChange,
-        _ => throw new FormatException($"unknown metric '{text}' (choose from ssim, vif, corr, rmsd, mean-abs-change)"),
+        "bias" => SimilarityMetric.Bias,
+        _ => throw new FormatException($"unknown metric '{text}' (choose from ssim, vif, corr, rmsd, mean-abs-change, bias)"),
     };
 }
