@@ -15,7 +15,7 @@ public static class RegridCommand
         var method = new Option<string>("--method") { Description = "bilinear or conservative", DefaultValueFactory = _ => "conservative" };
         var output = new Option<string>("--out") { Description = "NetCDF to write", Required = true };
         var calendar = new Option<string?>("--calendar") { Description = "move a noleap or all_leap record onto the standard calendar by date (dates it lacks are dropped)" };
-        var resample = new Option<string?>("--resample") { Description = "daily or monthly means of the remapped frames, with time bounds" };
+        var resample = new Option<string?>("--resample") { Description = "means of the remapped frames over PTnH (e.g. PT3H), daily or monthly periods, with time bounds" };
         var weights = new Option<string?>("--weights") { Description = "weights file: read when it exists (and matches the grids), else written after building" };
         var format = CommonOptions.Format();
         var units = CommonOptions.Units();

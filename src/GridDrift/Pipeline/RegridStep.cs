@@ -63,7 +63,8 @@ public static class RegridStep
             calendar = toCalendar.CfName();
         }
         Resampling resampling;
-        try { resampling = PeriodMeans.Parse(o.Resample); }
+        int periodHours;
+        try { resampling = PeriodMeans.Parse(o.Resample, out periodHours); }
         catch (FormatException e) { throw new BadInputException(null, null, e.Message); }
         var units = TimeUnits.Parse(source.TimeUnits.Text, toCalendar);
         var globals = Provenance.For(o.Command, source.Files).AsKeyValues(new Dictionary<string, string>
@@ -72,7 +73,7 @@ public static class RegridStep
             ["remap_method"] = weights.Method + "; missing source cells left out and the weights renormalised",
             ["remap_source_grid"] = $"{grid.Rows} x {grid.Columns} ({grid.Kind})",
             ["calendar_alignment"] = toCalendar == source.Calendar ? "none" : $"{source.Calendar.CfName()} -> {toCalendar.CfName()} by date (year, month, day and time of day kept; dates the target calendar lacks dropped)",
-            ["resampling"] = resampling == Resampling.None ? "none" : $"{resampling.ToString().ToLowerInvariant()} means of the frames in each period",
+            ["resampling"] = resampling == Resampling.None ? "none" : $"{(resampling == Resampling.Hours ? $"{periodHours}-hourly" : resampling.ToString().ToLowerInvariant())} means of the frames in each period",
         });
         using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, globals);
         var timeAttributes = new List<NcAttribute> { NcAttribute.Text("standard_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text), NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T") };
@@ -111,7 +112,7 @@ public static class RegridStep
             Write(mid, from, to, mean, fractionMeans);
             Array.Clear(fractionSum);
             inPeriod = 0;
-        });
+        }, periodHours);
         CfTime? period = null;
         for (int t = 0; t < source.FrameCount; t++)
         {
