@@ -3,6 +3,7 @@ using GridDrift.Benchmarks;
 // On-demand benchmarks: each compares GridDrift with a peer measured in the same run.
 //   read [--frames 400] [--dir DIR]    frame-by-frame reads, CDF-2 and deflate netCDF-4, vs python netCDF4
 //   stats [FRAMES]                     region reductions of 721 × 1440 frames over 172 regions, vs numpy
+//   regrid [FRAMES]                    conservative 721 × 1440 → 1°: weight build and per frame, vs scipy sparse
 //   climatology [FRAMES]               monthly and hour-by-month climatologies of hourly 181 × 360 frames vs numpy group-by; memory at 1,000 and FRAMES
 //   similarity [PAIRS]                 SSIM and VIF of 721 × 1440 pairs vs scikit-image and numpy/scipy; memory over 100 and 10,000 frames
 return args.FirstOrDefault() switch
@@ -13,6 +14,7 @@ return args.FirstOrDefault() switch
     "similarity" => SimilarityBenchmark.Run(args[1..]),
     "similarity-one" => SimilarityBenchmark.RunOne(args[1..]),
     "climatology" => ClimatologyBenchmark.Run(args[1..]),
+    "regrid" => RegridBenchmark.Run(args[1..]),
     "climatology-one" => ClimatologyBenchmark.RunOne(args[1..]),
     _ => Usage(),
 };
