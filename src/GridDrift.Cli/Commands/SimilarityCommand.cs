@@ -29,12 +29,13 @@ public static class SimilarityCommand
         var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
         var radius = CommonOptions.EarthRadius();
         var format = CommonOptions.Format();
+        var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("similarity", "Frame-to-frame structural similarity (SSIM, VIF), correlation, RMS difference and mean absolute change per region.\n\n" +
             "Example:\n  griddrift similarity cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --metric ssim,vif,corr,rmsd,mean-abs-change --out sim.nc --table sim.parquet\n" +
             "  griddrift similarity --reference obs.nc --candidate model_on_obs_grid.nc --var tcwv --regions global --metric bias,rmsd,corr,ssim --out compare.nc")
         {
-            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, quiet,
+            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, units, quiet,
         };
         command.SetAction(parse =>
         {
@@ -57,7 +58,7 @@ public static class SimilarityCommand
             var options = new SimilarityOptions(InputPaths.Expand(inputs), parse.GetValue(variable)!, parse.GetValue(regions)!, metrics,
                 parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(lag), parse.GetValue(range), parse.GetValue(acrossGaps), parse.GetValue(against),
                 parse.GetValue(minValid), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("similarity", commandLine),
-                Reference: reference.Length > 0 ? InputPaths.Expand(reference) : null);
+                Reference: reference.Length > 0 ? InputPaths.Expand(reference) : null, Units: parse.GetValue(units));
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "pairs", progress => SimilarityStep.Run(options, progress));
             var error = parse.InvocationConfiguration.Error;
             if (summary.CellsOutsideRange > 0)

@@ -18,7 +18,8 @@ public sealed record DeriveOptions(
     ClassicVariant? Format = null,
     string Command = "griddrift derive",
     string? Temperature = null,
-    string? Pressure = null);
+    string? Pressure = null,
+    string? Units = null);
 
 public sealed record DeriveSummary(int Frames, int Levels, string Variable);
 
@@ -77,9 +78,10 @@ public static class DeriveStep
             var tcwv = w.Writer.AddVariable("tcwv", NcType.Float, w.FieldDimensions(), template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping")
                 .Append(NcAttribute.Text("standard_name", "atmosphere_mass_content_of_water_vapor"))
                 .Append(NcAttribute.Text("long_name", $"total column water vapour from {variable}"))
-                .Append(NcAttribute.Text("units", "kg m-2"))
+                .Append(NcAttribute.Text("units", o.Units ?? "kg m-2"))
                 .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
             w.EndDefinitions();
+            var outUnits = o.Units is null ? null : Converter("kg m-2", o.Units, o.Output, "tcwv");
             var frame = new float[source.FrameLength];
             var ps = new float[cells];
             var column = new double[levels];
@@ -93,7 +95,7 @@ public static class DeriveStep
                     for (int k = 0; k < levels; k++) column[k] = frame[k * cells + c] * qScale;
                     double bottom = surface is null ? double.NaN : ps[c] * psScale;
                     double v = surface is not null && double.IsNaN(bottom) ? double.NaN : Moisture.ColumnWaterVapour(pressure, column, bottom);
-                    result[c] = double.IsNaN(v) ? ClimatologyNetCdfWriter.Fill : (float)v;
+                    result[c] = double.IsNaN(v) ? ClimatologyNetCdfWriter.Fill : (float)(outUnits?.Convert(v) ?? v);
                 }
                 w.Writer.WriteRecord<double>(time, t, [source.TimeUnits.Encode(source.Times[t])]);
                 w.Writer.WriteRecord<float>(tcwv, t, result);
@@ -164,9 +166,10 @@ public static class DeriveStep
             var output = w.Writer.AddVariable(name, NcType.Float, w.FieldDimensions(), template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping")
                 .Append(NcAttribute.Text("standard_name", rh ? "relative_humidity" : "specific_humidity"))
                 .Append(NcAttribute.Text("long_name", rh ? "relative humidity over liquid water" : $"specific humidity from the dew point {variable}"))
-                .Append(NcAttribute.Text("units", rh ? "%" : "kg kg-1"))
+                .Append(NcAttribute.Text("units", o.Units ?? (rh ? "%" : "kg kg-1")))
                 .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
             w.EndDefinitions();
+            var outUnits = o.Units is null ? null : Converter(rh ? "%" : "kg kg-1", o.Units, o.Output, name);
             var x = new float[source.FrameLength];
             var t2 = new float[source.FrameLength];
             var p2 = new float[source.FrameLength];
@@ -181,7 +184,7 @@ public static class DeriveStep
                     double p = pressureField is null ? levels![i / cells] : p2[i] * pScale;
                     double v = inputUnits.Convert(x[i]);
                     double r = rh ? Moisture.RelativeHumidity(v, tUnits!.Convert(t2[i]), p) : Moisture.SpecificHumidityFromDewPoint(v, p);
-                    result[i] = double.IsFinite(r) ? (float)r : ClimatologyNetCdfWriter.Fill;
+                    result[i] = double.IsFinite(r) ? (float)(outUnits?.Convert(r) ?? r) : ClimatologyNetCdfWriter.Fill;
                 }
                 w.Writer.WriteRecord<double>(time, f, [source.TimeUnits.Encode(source.Times[f])]);
                 w.Writer.WriteRecord<float>(output, f, result);

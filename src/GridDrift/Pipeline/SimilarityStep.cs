@@ -29,7 +29,8 @@ public sealed record SimilarityOptions(
     ClassicVariant? Format = null,
     string Command = "griddrift similarity",
     int Workers = 0,
-    IReadOnlyList<string>? Reference = null);
+    IReadOnlyList<string>? Reference = null,
+    string? Units = null);
 
 public sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions);
 
@@ -46,6 +47,7 @@ public static class SimilarityStep
         if (o.Lag < 1) throw new BadInputException(null, null, "--lag must be at least 1");
         if (o.Metrics.Count == 0) throw new BadInputException(null, null, "no metric asked for (--metric ssim,vif,corr,rmsd,mean-abs-change)");
         using var source = FrameSource.Open(o.Inputs, o.Variable);
+        if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var grid = GridReader.Read(source.Template, source.Axes, o.EarthRadius);
         if (source.FrameLength != grid.CellCount)
             throw new BadInputException(source.Files[0], o.Variable, $"frames have {source.FrameLength} values but the grid has {grid.CellCount} cells: only (time, y, x) variables are supported");
@@ -53,6 +55,12 @@ public static class SimilarityStep
             throw new BadInputException(source.Files[0], o.Variable, "longitude comes before latitude in this variable's dimensions; similarity needs (time, lat, lon) order");
         var variable = source.Template.RequireVariable(o.Variable);
         var range = DataRange.Resolve(o.Range, variable, source.Files[0]);
+        if (o.Units is not null && o.Range is null)
+        {
+            // a range from the file's attributes or the standard_name defaults is in the file's units
+            var c = GridDrift.Conventions.Units.UnitConverter.Between(variable.Attributes.Text("units") ?? "1", source.Units);
+            range = range with { Low = c.Convert(range.Low), High = c.Convert(range.High) };
+        }
         var shapes = RegionSpecs.ParseInput(o.Regions);
         var mask = RegionMaskBuilder.Build(grid, shapes);
         var plan = SeparablePlan.TryBuild(grid, shapes);
@@ -60,6 +68,7 @@ public static class SimilarityStep
 
         float[]? reference = o.Against is null ? null : ReadReference(o.Against, o.Variable, grid);
         using var observed = o.Reference is { Count: > 0 } ? FrameSource.Open(o.Reference, o.Variable) : null;
+        observed?.ConvertUnits(source.Units); // the reference in the candidate's units (K against degC, g/kg against kg kg-1)
         List<(int Earlier, int Later)> pairs;
         List<(CfTime Earlier, CfTime Later)> skipped;
         if (observed is not null)
@@ -76,7 +85,7 @@ public static class SimilarityStep
         }
         else pairs = Pairs(source, o.Lag, o.AcrossGaps, reference is not null, out skipped);
 
-        string units = variable.Attributes.Text("units") ?? "1";
+        string units = source.Units;
         var quantities = o.Metrics.Select(m => Quantity(m, o.Variable, units)).ToList();
         var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea, quantities, source.TimeUnits,
             source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard",

@@ -66,6 +66,36 @@ public class UnitsOptionTests
     }
 
     [Fact]
+    public void A_comparison_converts_the_reference_to_the_candidates_units()
+    {
+        // the same temperatures in K (reference) and in degC (candidate): the bias is 0 once both are in degC
+        using var dir = new TempFolder();
+        string kelvin = Kelvin(dir.File("k.nc"));
+        Assert.Equal(0, CliRun.Run("regrid", kelvin, "--var", "ta", "--to", kelvin, "--units", "degC", "--out", dir.File("c.nc"), "--quiet").ExitCode);
+        var outcome = CliRun.Run("similarity", "--reference", kelvin, "--candidate", dir.File("c.nc"), "--var", "ta", "--regions", "global",
+            "--metric", "bias,rmsd", "--range", "-100:100", "--out", dir.File("cmp.nc"), "--quiet");
+        Assert.True(outcome.ExitCode == 0, outcome.Stderr);
+        using var r = DatasetFiles.Open(dir.File("cmp.nc"));
+        Assert.All(r.ReadAllDoubles(r.RequireVariable("bias")), b => Assert.True(Math.Abs(b) < 1e-3, $"bias {b}"));
+        Assert.Equal("degC", r.RequireVariable("bias").Attributes.Text("units"));
+    }
+
+    [Fact]
+    public void Derived_column_water_in_g_m2_is_a_thousand_times_the_kg_m2_value()
+    {
+        using var dir = new TempFolder();
+        string sample = SharedData.Sample("q_levels_noleap_2031.nc");
+        Assert.Equal(0, CliRun.Run("derive", "column-water-vapour", sample, "--out", dir.File("kg.nc"), "--quiet").ExitCode);
+        Assert.Equal(0, CliRun.Run("derive", "column-water-vapour", sample, "--units", "g m-2", "--out", dir.File("g.nc"), "--quiet").ExitCode);
+        using var kg = DatasetFiles.Open(dir.File("kg.nc"));
+        using var g = DatasetFiles.Open(dir.File("g.nc"));
+        var a = kg.ReadAllDoubles(kg.RequireVariable("tcwv"));
+        var b = g.ReadAllDoubles(g.RequireVariable("tcwv"));
+        for (int i = 0; i < a.Length; i++) Assert.True(Math.Abs(b[i] - 1000 * a[i]) <= 1e-6 * Math.Abs(b[i]) + 1e-6, $"{a[i]} kg m-2 vs {b[i]} g m-2");
+        Assert.Equal("g m-2", g.RequireVariable("tcwv").Attributes.Text("units"));
+    }
+
+    [Fact]
     public void Units_of_another_dimension_are_refused_with_one_line()
     {
         using var dir = new TempFolder();
