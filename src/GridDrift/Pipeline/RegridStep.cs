@@ -43,8 +43,10 @@ public static class RegridStep
         try { target = TargetGrids.TryParse(o.To) ?? ReadTarget(o.To); }
         catch (FormatException e) { throw new BadInputException(null, null, "--to " + e.Message); }
         if (o.Method is not ("conservative" or "bilinear")) throw new BadInputException(null, null, $"--method {o.Method}: choose bilinear or conservative");
-        if (!grid.IsRectilinear || !target.IsRectilinear)
-            throw new BadInputException(source.Files[0], o.Variable, "remapping needs latitude-longitude grids on both sides (curvilinear and geostationary sources are not supported yet)");
+        if (!target.IsRectilinear)
+            throw new BadInputException(o.To, null, "the target must be a latitude-longitude grid");
+        if (!grid.IsRectilinear && (o.Method != "conservative" || grid.CornerLat is null))
+            throw new BadInputException(source.Files[0], o.Variable, "a curvilinear source can only be remapped conservatively (bilinear needs a latitude-longitude source)");
         RemapWeights? weights = o.Weights is { } saved && File.Exists(saved) ? WeightsFile.Load(saved, grid, target, o.Method) : null;
         bool reused = weights is not null;
         if (o.Weights is { } existing && File.Exists(existing) && !reused)

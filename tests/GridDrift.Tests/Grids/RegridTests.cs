@@ -1,4 +1,5 @@
 using System.Text.Json;
+using GridDrift.Formats;
 using GridDrift.Grids;
 using GridDrift.Grids.Regridding;
 using GridDrift.Tests.Support;
@@ -49,6 +50,29 @@ public class RegridTests
             weights.Apply(constant, output, covered);
             Assert.All(output, v => Assert.Equal(273.15f, v));
         }
+    }
+
+    [Fact]
+    public void A_curvilinear_source_keeps_its_integral_and_a_constant()
+    {
+        // the rotated-pole sample: every source cell's 64 sub-cells land in some cell of a global target,
+        // so the weights of each source cell sum to its area and the integral is kept (1e-12)
+        using var reader = GridDrift.Formats.DatasetFiles.Open(SharedData.Sample("q_curvilinear_360day.nc"));
+        var axes = GridDrift.Conventions.Coordinates.VariableAxes.Discover(reader, reader.RequireVariable("huss"));
+        var source = GridDrift.Conventions.Coordinates.GridReader.Read(reader, axes);
+        var target = Regular(5);
+        var w = ConservativeRemap.Build(source, target);
+        var rng = new Random(4);
+        var field = Enumerable.Range(0, source.CellCount).Select(_ => (float)rng.NextDouble()).ToArray();
+        double before = 0, after = 0;
+        for (int j = 0; j < source.Rows; j++)
+            for (int i = 0; i < source.Columns; i++) before += source.CellArea[j * source.Columns + i] * field[source.FrameIndex(j, i)];
+        for (int k = 0; k < w.Column.Length; k++) after += w.Weight[k] * field[w.Column[k]];
+        Assert.True(Math.Abs(after - before) <= 1e-12 * before, $"integral {before:R} → {after:R}");
+        var output = new float[target.CellCount];
+        w.Apply(Enumerable.Repeat(0.004f, source.CellCount).ToArray(), output, []);
+        Assert.All(output.Where(v => !float.IsNaN(v)), v => Assert.Equal(0.004f, v));
+        Assert.Contains(output, v => !float.IsNaN(v));
     }
 
     [Fact]
