@@ -18,7 +18,66 @@ public sealed class RemapWeights
     public required double[] TargetWeight { get; init; }
     public required string Method { get; init; }
 
+    float[]? _normalized;
+    float[]? _fullCover;
+
+    /// <summary>
+    /// For frames without missing values: each weight divided by its row's total, as float32 (the
+    /// products are float32 too), so one pass reads 8 bytes per weight instead of 12 and needs no
+    /// checks or division. Sums stay in float64.
+    /// </summary>
+    void Normalise()
+    {
+        var n = new float[Weight.Length];
+        var cover = new float[TargetCells];
+        for (int t = 0; t < TargetCells; t++)
+        {
+            double sum = 0;
+            for (int k = RowStart[t]; k < RowStart[t + 1]; k++) sum += Weight[k];
+            for (int k = RowStart[t]; k < RowStart[t + 1]; k++) n[k] = (float)(Weight[k] / sum);
+            cover[t] = TargetWeight[t] > 0 ? (float)Math.Min(1, sum / TargetWeight[t]) : 0;
+        }
+        _fullCover = cover;
+        _normalized = n;
+    }
+
+    /// <summary>NaN is the only value not equal to itself: compared eight lanes at a time.</summary>
+    static bool HasNaN(ReadOnlySpan<float> values)
+    {
+        int i = 0;
+        if (System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
+            for (; i + 8 <= values.Length; i += 8)
+            {
+                var v = System.Runtime.Intrinsics.Vector256.Create(values.Slice(i, 8));
+                if (!System.Runtime.Intrinsics.Vector256.EqualsAll(v, v)) return true;
+            }
+        for (; i < values.Length; i++) if (float.IsNaN(values[i])) return true;
+        return false;
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Apply(ReadOnlySpan<float> source, Span<float> target, Span<float> coveredFraction)
+    {
+        if (HasNaN(source))
+        {
+            ApplyWithMissing(source, target, coveredFraction);
+            return;
+        }
+        if (_normalized is null) Normalise();
+        var w = _normalized!;
+        var col = Column;
+        ref float x = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(source);
+        for (int t = 0; t < TargetCells; t++)
+        {
+            int k = RowStart[t], end = RowStart[t + 1];
+            double s = 0;
+            for (; k < end; k++) s += w[k] * System.Runtime.CompilerServices.Unsafe.Add(ref x, col[k]);
+            target[t] = end > RowStart[t] ? (float)s : float.NaN;
+        }
+        if (!coveredFraction.IsEmpty) _fullCover.AsSpan().CopyTo(coveredFraction);
+    }
+
+    void ApplyWithMissing(ReadOnlySpan<float> source, Span<float> target, Span<float> coveredFraction)
     {
         for (int t = 0; t < TargetCells; t++)
         {
