@@ -20,6 +20,7 @@ public sealed class RemapWeights
 
     float[]? _normalized;
     float[]? _fullCover;
+    double[]? _normalizedSum;
 
     /// <summary>
     /// For frames without missing values: each weight divided by its row's total, as float32 (the
@@ -30,13 +31,16 @@ public sealed class RemapWeights
     {
         var n = new float[Weight.Length];
         var cover = new float[TargetCells];
+        var sums = new double[TargetCells];
         for (int t = 0; t < TargetCells; t++)
         {
             double sum = 0;
             for (int k = RowStart[t]; k < RowStart[t + 1]; k++) sum += Weight[k];
-            for (int k = RowStart[t]; k < RowStart[t + 1]; k++) n[k] = (float)(Weight[k] / sum);
+            for (int k = RowStart[t]; k < RowStart[t + 1]; k++) { n[k] = (float)(Weight[k] / sum); sums[t] += n[k]; }
             cover[t] = TargetWeight[t] > 0 ? (float)Math.Min(1, sum / TargetWeight[t]) : 0;
         }
+        // dividing by the float32 weights' own sum keeps a constant field exact
+        _normalizedSum = sums;
         _fullCover = cover;
         _normalized = n;
     }
@@ -72,7 +76,7 @@ public sealed class RemapWeights
             int k = RowStart[t], end = RowStart[t + 1];
             double s = 0;
             for (; k < end; k++) s += w[k] * System.Runtime.CompilerServices.Unsafe.Add(ref x, col[k]);
-            target[t] = end > RowStart[t] ? (float)s : float.NaN;
+            target[t] = end > RowStart[t] ? (float)(s / _normalizedSum![t]) : float.NaN;
         }
         if (!coveredFraction.IsEmpty) _fullCover.AsSpan().CopyTo(coveredFraction);
     }
