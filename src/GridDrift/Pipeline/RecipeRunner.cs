@@ -36,6 +36,7 @@ public static class RecipeRunner
         string Product(string name) => Path.IsPathRooted(name) ? name : Path.Combine(outDir, name);
         string stateDir = Path.Combine(outDir, ".griddrift-run");
         Directory.CreateDirectory(stateDir);
+        using var runLock = RunLock.Take(stateDir, outDir);
         var outcomes = new List<StepOutcome>();
 
         foreach (var step in Order.Where(recipe.Has))

@@ -1,0 +1,99 @@
+using System.Diagnostics;
+using DuckDB.NET.Data;
+using GridDrift.Formats;
+using GridDrift.Tests.Support;
+
+namespace GridDrift.Tests.Pipeline;
+
+/// <summary>
+/// Faults: `griddrift run` killed outright (SIGKILL) at two moments never leaves a half-written
+/// file under a final name — every product present opens and reads to its end — and a rerun
+/// resumes to products with the same values as an uninterrupted run; a second run writing into
+/// the same products folder is refused with a lock message.
+/// </summary>
+public class FaultTests
+{
+    [Fact]
+    public void A_second_run_into_the_same_folder_is_refused()
+    {
+        using var dir = new TempFolder();
+        string input = SampleFiles.Record(dir.File("in.nc"), frames: 20, stepHours: 24);
+        File.WriteAllText(dir.File("recipe.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nregions = [\"global\"]\nout = \"products\"\n\n[stats]\nout = \"stats.nc\"\n");
+        Directory.CreateDirectory(dir.File("products/.griddrift-run"));
+        using var held = GridDrift.Pipeline.RunLock.Take(dir.File("products/.griddrift-run"), dir.File("products"));
+        var outcome = CliRun.Run("run", dir.File("recipe.toml"));
+        Assert.Equal(2, outcome.ExitCode);
+        Assert.Contains("another griddrift run", Assert.Single(outcome.StderrLines));
+    }
+
+    [Fact]
+    public void A_run_killed_twice_resumes_to_the_values_of_an_uninterrupted_run()
+    {
+        using var dir = new TempFolder();
+        Assert.Equal(0, CliRun.Run("demo", "--size", "small", "--out", dir.Path, "--quiet").ExitCode);
+        string products = Path.Combine(dir.Path, "products");
+        var reference = Values(products);
+        Directory.Delete(products, recursive: true);
+
+        string cli = Path.Combine(AppContext.BaseDirectory, "griddrift.dll");
+        int killed = 0;
+        foreach (int delayMs in new[] { 2500, 3000 })
+        {
+            var info = new ProcessStartInfo("dotnet", $"\"{cli}\" run \"{Path.Combine(dir.Path, "recipe.toml")}\" --quiet") { UseShellExecute = false, RedirectStandardError = true };
+            using var p = Process.Start(info)!;
+            Thread.Sleep(delayMs);
+            if (!p.HasExited) { p.Kill(entireProcessTree: true); killed++; }
+            p.WaitForExit();
+            AssertEveryProductIsWhole(products);
+        }
+        Assert.True(killed >= 1, "the run finished before it could be killed: the test proved nothing");
+        var resumed = CliRun.Run("run", Path.Combine(dir.Path, "recipe.toml"), "--quiet");
+        Assert.True(resumed.ExitCode == 0, resumed.Stderr);
+        var after = Values(products);
+        Assert.Equal(reference.Keys.Order(), after.Keys.Order());
+        foreach (var (name, values) in reference) Assert.True(values.SequenceEqual(after[name]), $"{name} differs after the interrupted run");
+    }
+
+    /// <summary>The numbers of the chain's products: series variables and the change-point table.</summary>
+    static Dictionary<string, double[]> Values(string products)
+    {
+        var result = new Dictionary<string, double[]>();
+        foreach (var (file, variable) in new[] { ("stats.nc", "mean"), ("similarity.nc", "ssim"), ("climatology.nc", "tb"), ("anomalies.nc", "anomaly") })
+        {
+            using var r = DatasetFiles.Open(Path.Combine(products, file));
+            result[$"{file}:{variable}"] = r.ReadAllDoubles(r.RequireVariable(variable));
+        }
+        using var db = new DuckDBConnection("DataSource=:memory:");
+        db.Open();
+        using var cmd = db.CreateCommand();
+        cmd.CommandText = $"SELECT mean_before, mean_after FROM read_parquet('{Path.Combine(products, "events_changepoints.parquet")}') ORDER BY region, method, time";
+        using var reader = cmd.ExecuteReader();
+        var numbers = new List<double>();
+        while (reader.Read()) { numbers.Add(reader.GetDouble(0)); numbers.Add(reader.GetDouble(1)); }
+        result["events_changepoints"] = numbers.ToArray();
+        return result;
+    }
+
+    static void AssertEveryProductIsWhole(string products)
+    {
+        if (!Directory.Exists(products)) return;
+        foreach (var path in Directory.EnumerateFiles(products, "*", SearchOption.AllDirectories))
+        {
+            string name = Path.GetFileName(path);
+            if (name.StartsWith('.') || name.EndsWith(".part", StringComparison.Ordinal) || path.Contains(".griddrift-run")) continue;
+            if (name.EndsWith(".nc", StringComparison.Ordinal))
+            {
+                using var r = DatasetFiles.Open(path);
+                foreach (var v in r.Variables.Where(v => NcTypes.IsNumeric(v.Type))) r.ReadAllDoubles(v);
+            }
+            else if (name.EndsWith(".parquet", StringComparison.Ordinal))
+            {
+                using var db = new DuckDBConnection("DataSource=:memory:");
+                db.Open();
+                using var cmd = db.CreateCommand();
+                cmd.CommandText = $"SELECT count(*) FROM read_parquet('{path}')";
+                Assert.True(Convert.ToInt64(cmd.ExecuteScalar()) >= 0);
+            }
+        }
+    }
+}
