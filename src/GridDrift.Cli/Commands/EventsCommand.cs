@@ -30,23 +30,17 @@ public static class EventsCommand
         };
         command.SetAction(parse =>
         {
-            var detectors = parse.GetValue(detect)!.Split(',', StringSplitOptions.RemoveEmptyEntries).Select(d => d.Trim() switch
+            Detector[] detectors;
+            ChangeMethod[] methods;
+            try
             {
-                "robust-z" => Detector.RobustZ,
-                "hampel" => Detector.Hampel,
-                "iqr" => Detector.Iqr,
-                "seasonal-residual" => Detector.SeasonalResidual,
-                "gesd" => Detector.Gesd,
-                _ => throw new BadInputException(null, null, $"--detect {d}: choose robust-z, hampel, iqr, seasonal-residual or gesd"),
-            }).Distinct().ToArray();
-            var methods = parse.GetValue(changepoints)!.Split(',', StringSplitOptions.RemoveEmptyEntries).SelectMany(m => m.Trim() switch
+                detectors = parse.GetValue(detect)!.Split(',', StringSplitOptions.RemoveEmptyEntries).Select(EventsStep.ParseDetector).Distinct().ToArray();
+                methods = parse.GetValue(changepoints)!.Split(',', StringSplitOptions.RemoveEmptyEntries).SelectMany(EventsStep.ParseChangeMethods).Distinct().ToArray();
+            }
+            catch (FormatException e)
             {
-                "pettitt" => new[] { ChangeMethod.Pettitt },
-                "pelt" => [ChangeMethod.PeltMean, ChangeMethod.PeltMeanVariance],
-                "pelt-mean" => [ChangeMethod.PeltMean],
-                "pelt-meanvar" => [ChangeMethod.PeltMeanVariance],
-                _ => throw new BadInputException(null, null, $"--changepoints {m}: choose pettitt, pelt, pelt-mean or pelt-meanvar"),
-            }).Distinct().ToArray();
+                throw new BadInputException(null, null, e.Message);
+            }
             string w = parse.GetValue(window)!.Trim().TrimEnd('d', 'D');
             if (!double.TryParse(w, NumberStyles.Float, CultureInfo.InvariantCulture, out double windowDays) || windowDays <= 0)
                 throw new BadInputException(null, null, $"--window {parse.GetValue(window)}: give a number of days, e.g. 365d");

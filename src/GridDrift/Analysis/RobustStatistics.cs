@@ -23,6 +23,15 @@ public static class RobustStatistics
         return Median(d);
     }
 
+    /// <summary>Short-term noise σ of a series, robust to shifts in its mean: 1.4826 · MAD of the first differences / √2.</summary>
+    public static double DifferenceNoise(ReadOnlySpan<double> x)
+    {
+        if (x.Length < 3) return double.NaN;
+        var d = new double[x.Length - 1];
+        for (int i = 1; i < x.Length; i++) d[i - 1] = x[i] - x[i - 1];
+        return Mad(d) * MadScale / Math.Sqrt(2);
+    }
+
     /// <summary>The q-quantile by linear interpolation between order statistics (numpy's default; Hyndman &amp; Fan definition 7).</summary>
     public static double Quantile(ReadOnlySpan<double> x, double q)
     {

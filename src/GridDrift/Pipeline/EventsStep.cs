@@ -42,7 +42,7 @@ public static class EventsStep
         foreach (var r in regions)
             if (!series.Regions.Contains(r)) throw new BadInputException(o.Input, quantity, $"has no region '{r}' (it has: {string.Join(", ", series.Regions)})");
         if (series.Times.Length < 3) throw new BadInputException(o.Input, quantity, $"has {series.Times.Length} time steps; the analysis needs at least 3");
-        var analysis = (o.Analysis ?? Defaults) with { YearDays = YearDays(series.Times[0].Calendar) };
+        var analysis = (o.Analysis ?? Defaults) with { YearDays = series.Times[0].Calendar.MeanYearDays() };
         var times = series.Times;
         var days = times.Select(t => t.SecondsSince(times[0]) / 86400.0).ToArray();
         string units = series.Units.TryGetValue(quantity, out var u) ? u : "";
@@ -95,7 +95,7 @@ public static class EventsStep
                 ["sen_slope"] = Number(found.Slope.Slope), ["sen_slope_lo"] = Number(found.Slope.Low), ["sen_slope_hi"] = Number(found.Slope.High),
                 ["mk_z"] = Number(found.Trend.ZCorrected), ["mk_p"] = Number(found.Trend.PCorrected),
                 ["mk_z_uncorrected"] = Number(found.Trend.Z), ["mk_p_uncorrected"] = Number(found.Trend.P),
-                ["noise_sd"] = Number(NoiseSd(x)),
+                ["noise_sd"] = Number(RobustStatistics.DifferenceNoise(x.Where(v => !double.IsNaN(v)).ToArray())),
             });
             foreach (var (first, end, trend, slope) in found.Segments)
                 AddTrend(trends, region, quantity, "segment", times[first], times[end - 1], trend, slope, units);
@@ -141,23 +141,25 @@ public static class EventsStep
 
     static JsonNode? Number(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
 
-    /// <summary>The series' short-term noise: 1.4826 · MAD of its first differences / √2 (NaN values skipped).</summary>
-    static double NoiseSd(double[] x)
+    /// <summary>A detector by its command-line name (the inverse of <see cref="Name(Detector)"/>).</summary>
+    public static Detector ParseDetector(string text) => text.Trim() switch
     {
-        var v = x.Where(d => !double.IsNaN(d)).ToArray();
-        if (v.Length < 3) return double.NaN;
-        var d = new double[v.Length - 1];
-        for (int i = 1; i < v.Length; i++) d[i - 1] = v[i] - v[i - 1];
-        return RobustStatistics.Mad(d) * RobustStatistics.MadScale / Math.Sqrt(2);
-    }
+        "robust-z" => Detector.RobustZ,
+        "hampel" => Detector.Hampel,
+        "iqr" => Detector.Iqr,
+        "seasonal-residual" => Detector.SeasonalResidual,
+        "gesd" => Detector.Gesd,
+        var other => throw new FormatException($"unknown detector '{other}' (choose robust-z, hampel, iqr, seasonal-residual or gesd)"),
+    };
 
-    static double YearDays(CfCalendar c) => c switch
+    /// <summary>Change-point methods by name; `pelt` stands for both PELT costs.</summary>
+    public static ChangeMethod[] ParseChangeMethods(string text) => text.Trim() switch
     {
-        CfCalendar.Day360 => 360,
-        CfCalendar.NoLeap => 365,
-        CfCalendar.AllLeap => 366,
-        CfCalendar.Julian => 365.25,
-        _ => 365.2425,
+        "pettitt" => [ChangeMethod.Pettitt],
+        "pelt" => [ChangeMethod.PeltMean, ChangeMethod.PeltMeanVariance],
+        "pelt-mean" => [ChangeMethod.PeltMean],
+        "pelt-meanvar" => [ChangeMethod.PeltMeanVariance],
+        var other => throw new FormatException($"unknown change-point method '{other}' (choose pettitt, pelt, pelt-mean or pelt-meanvar)"),
     };
 
     public static string Name(Detector d) => d switch

@@ -180,23 +180,13 @@ public static class RecipeRunner
     static GridDrift.Analysis.SeriesAnalysisOptions EventsAnalysis(Recipe r)
     {
         var d = EventsStep.Defaults;
-        var detectors = r.List("events", "detect", []).Select(x => x switch
+        T[] Parsed<T>(string key, Func<string, IEnumerable<T>> parse)
         {
-            "robust-z" => GridDrift.Analysis.Detector.RobustZ,
-            "hampel" => GridDrift.Analysis.Detector.Hampel,
-            "iqr" => GridDrift.Analysis.Detector.Iqr,
-            "seasonal-residual" => GridDrift.Analysis.Detector.SeasonalResidual,
-            "gesd" => GridDrift.Analysis.Detector.Gesd,
-            _ => throw new BadInputException(r.Path, "events.detect", $"line {r.Sections["events"].Keys["detect"].Line}: unknown detector '{x}'"),
-        }).ToArray();
-        var methods = r.List("events", "changepoints", []).SelectMany(x => x switch
-        {
-            "pettitt" => new[] { GridDrift.Analysis.ChangeMethod.Pettitt },
-            "pelt" => [GridDrift.Analysis.ChangeMethod.PeltMean, GridDrift.Analysis.ChangeMethod.PeltMeanVariance],
-            "pelt-mean" => [GridDrift.Analysis.ChangeMethod.PeltMean],
-            "pelt-meanvar" => [GridDrift.Analysis.ChangeMethod.PeltMeanVariance],
-            _ => throw new BadInputException(r.Path, "events.changepoints", $"line {r.Sections["events"].Keys["changepoints"].Line}: unknown method '{x}'"),
-        }).Distinct().ToArray();
+            try { return r.List("events", key, []).SelectMany(parse).Distinct().ToArray(); }
+            catch (FormatException e) { throw new BadInputException(r.Path, $"events.{key}", $"line {r.Sections["events"].Keys[key].Line}: {e.Message}"); }
+        }
+        var detectors = Parsed<GridDrift.Analysis.Detector>("detect", x => [EventsStep.ParseDetector(x)]);
+        var methods = Parsed<GridDrift.Analysis.ChangeMethod>("changepoints", EventsStep.ParseChangeMethods);
         string on = r.Text("events", "on", "raw");
         return d with
         {

@@ -153,6 +153,20 @@ public static class SimilarityStep
         return field;
     }
 
+    /// <summary>One set of operators and result buffers per worker, made once per run.</summary>
+    static Worker[] Workers(int workers, Grid grid, RegionMask mask, SeparablePlan? plan, DataRange range, bool periodic, SimilarityOptions o) =>
+        Enumerable.Range(0, workers).Select(_ => new Worker
+        {
+            Ssim = new Ssim(grid.Rows, grid.Columns, periodic, range.Low, range.High),
+            Vif = new Vif(),
+            MapReducer = new RegionReducer(mask, [RegionStatistic.Mean, RegionStatistic.Valid], plan),
+            Map = o.Metrics.Contains(SimilarityMetric.Ssim) ? new float[grid.CellCount] : [],
+            MapStats = new double[mask.Count * 2],
+            PairStats = new double[mask.Count * PairReducer.Stride],
+            Values = new double[mask.Count * o.Metrics.Count],
+            Valid = new double[mask.Count],
+        }).ToArray();
+
     sealed class Worker
     {
         public required Ssim Ssim;
@@ -170,20 +184,8 @@ public static class SimilarityStep
         float[]? reference, List<(int Earlier, int Later)> pairs, ISeriesSink sink, IProgress<(int, int)>? progress)
     {
         int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount);
-        int nq = o.Metrics.Count;
-        bool wantSsim = o.Metrics.Contains(SimilarityMetric.Ssim), wantVif = o.Metrics.Contains(SimilarityMetric.Vif);
-        var boxes = wantVif ? RegionBox.Of(grid, mask) : [];
-        var pool = Enumerable.Range(0, workers).Select(_ => new Worker
-        {
-            Ssim = new Ssim(grid.Rows, grid.Columns, periodic, range.Low, range.High),
-            Vif = new Vif(),
-            MapReducer = new RegionReducer(mask, [RegionStatistic.Mean, RegionStatistic.Valid], plan),
-            Map = wantSsim ? new float[grid.CellCount] : [],
-            MapStats = new double[mask.Count * 2],
-            PairStats = new double[mask.Count * PairReducer.Stride],
-            Values = new double[mask.Count * nq],
-            Valid = new double[mask.Count],
-        }).ToArray();
+        var boxes = o.Metrics.Contains(SimilarityMetric.Vif) ? RegionBox.Of(grid, mask) : [];
+        var pool = Workers(workers, grid, mask, plan, range, periodic, o);
 
         // ring of decoded frames: a batch needs the frames from its first earlier index to its last later index
         int slots = (reference is null ? o.Lag : 0) + workers;
@@ -236,20 +238,9 @@ public static class SimilarityStep
     static long Compare(FrameSource observed, FrameSource candidate, Grid grid, RegionMask mask, SeparablePlan? plan, DataRange range, bool periodic, SimilarityOptions o,
         List<(int Earlier, int Later)> pairs, ISeriesSink sink, IProgress<(int, int)>? progress)
     {
-        int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), nq = o.Metrics.Count;
-        bool wantVif = o.Metrics.Contains(SimilarityMetric.Vif);
-        var boxes = wantVif ? RegionBox.Of(grid, mask) : [];
-        var pool = Enumerable.Range(0, workers).Select(_ => new Worker
-        {
-            Ssim = new Ssim(grid.Rows, grid.Columns, periodic, range.Low, range.High),
-            Vif = new Vif(),
-            MapReducer = new RegionReducer(mask, [RegionStatistic.Mean, RegionStatistic.Valid], plan),
-            Map = o.Metrics.Contains(SimilarityMetric.Ssim) ? new float[grid.CellCount] : [],
-            MapStats = new double[mask.Count * 2],
-            PairStats = new double[mask.Count * PairReducer.Stride],
-            Values = new double[mask.Count * nq],
-            Valid = new double[mask.Count],
-        }).ToArray();
+        int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount);
+        var boxes = o.Metrics.Contains(SimilarityMetric.Vif) ? RegionBox.Of(grid, mask) : [];
+        var pool = Workers(workers, grid, mask, plan, range, periodic, o);
         var a = Enumerable.Range(0, workers).Select(_ => new float[grid.CellCount]).ToArray();
         var b = Enumerable.Range(0, workers).Select(_ => new float[grid.CellCount]).ToArray();
         int batch = 0;

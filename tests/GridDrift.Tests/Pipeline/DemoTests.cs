@@ -21,22 +21,8 @@ public class DemoTests
         var outcome = CliRun.Run("demo", "--size", "small", "--out", dir.Path, "--quiet");
         Assert.True(outcome.ExitCode == 0, outcome.Stderr);
         string products = Path.Combine(dir.Path, "products");
-        using var db = new DuckDBConnection("DataSource=:memory:");
-        db.Open();
-        List<object?[]> Query(string sql)
-        {
-            using var cmd = db.CreateCommand();
-            cmd.CommandText = sql;
-            using var r = cmd.ExecuteReader();
-            var rows = new List<object?[]>();
-            while (r.Read())
-            {
-                var row = new object?[r.FieldCount];
-                for (int i = 0; i < row.Length; i++) row[i] = r.IsDBNull(i) ? null : r.GetValue(i);
-                rows.Add(row);
-            }
-            return rows;
-        }
+        using var db = DuckDb.Open();
+        List<object?[]> Query(string sql) => DuckDb.Query(db, sql);
         string changes = Path.Combine(products, "events_changepoints.parquet");
         foreach (var region in Changed)
         {

@@ -12,27 +12,9 @@ namespace GridDrift.Tests.Statistics;
 /// </summary>
 public class SeriesParquetTests
 {
-    static DuckDBConnection Open()
-    {
-        var c = new DuckDBConnection("DataSource=:memory:");
-        c.Open();
-        return c;
-    }
+    static DuckDBConnection Open() => DuckDb.Open();
 
-    static List<object?[]> Query(DuckDBConnection c, string sql)
-    {
-        using var cmd = c.CreateCommand();
-        cmd.CommandText = sql;
-        using var r = cmd.ExecuteReader();
-        var rows = new List<object?[]>();
-        while (r.Read())
-        {
-            var row = new object?[r.FieldCount];
-            for (int i = 0; i < row.Length; i++) row[i] = r.IsDBNull(i) ? null : r.GetValue(i);
-            rows.Add(row);
-        }
-        return rows;
-    }
+    static List<object?[]> Query(DuckDBConnection c, string sql) => DuckDb.Query(c, sql);
 
     static string Table(TempFolder dir, string calendar, double[] hours, string statistics = "mean,std,valid", double minValid = 0.5)
     {

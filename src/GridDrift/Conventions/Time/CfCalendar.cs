@@ -66,6 +66,16 @@ public static class CfCalendars
         return CommonMonths[month - 1];
     }
 
+    /// <summary>Mean length of the calendar's year in days: 360, 365, 366, 365.25 (julian) or 365.2425 (Gregorian).</summary>
+    public static double MeanYearDays(this CfCalendar c) => c switch
+    {
+        CfCalendar.Day360 => 360.0,
+        CfCalendar.NoLeap => 365.0,
+        CfCalendar.AllLeap => 366.0,
+        CfCalendar.Julian => 365.25,
+        _ => 365.2425,
+    };
+
     public static int DaysInYear(this CfCalendar c, long year) => c switch
     {
         CfCalendar.Day360 => 360,

@@ -46,14 +46,7 @@ public readonly record struct TimePeriod(CfTime Start, CfTime End)
     public bool Contains(CfTime t) => t >= Start && t < End;
 
     /// <summary>Length in years of the calendar (365.2425, 365, 366 or 360 days).</summary>
-    public double Years => End.SecondsSince(Start) / 86400.0 / Start.Calendar switch
-    {
-        CfCalendar.Day360 => 360.0,
-        CfCalendar.NoLeap => 365.0,
-        CfCalendar.AllLeap => 366.0,
-        CfCalendar.Julian => 365.25,
-        _ => 365.2425,
-    };
+    public double Years => End.SecondsSince(Start) / 86400.0 / Start.Calendar.MeanYearDays();
 
     /// <summary>ISO 8601 interval of the included period, END shown as the last instant's day when whole days.</summary>
     public string ToIsoString() => $"{Start.ToIsoString()}/{End.ToIsoString()}";
