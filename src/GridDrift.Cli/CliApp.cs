@@ -24,6 +24,7 @@ public static class CliApp
         root.Subcommands.Add(RegridCommand.Build(args ?? []));
         root.Subcommands.Add(DeriveCommand.Build(args ?? []));
         root.Subcommands.Add(RunCommands.Run(args ?? []));
+        root.Subcommands.Add(RunCommands.Gather(args ?? []));
         root.Subcommands.Add(RunCommands.Demo(args ?? []));
         return root;
     }

@@ -12,14 +12,42 @@ public static class RunCommands
         var recipe = new Argument<string>("RECIPE") { Description = "a recipe file (TOML): [input] and one table per step" };
         var quiet = CommonOptions.Quiet();
         var verbose = Verbose();
-        var command = new Command("run", "Run the whole chain of a recipe; steps whose products are up to date are skipped, so an interrupted run resumes.\n\n" +
-            "Example:\n  griddrift run griddrift-demo/recipe.toml") { recipe, quiet, verbose };
+        var shard = new Option<string?>("--shard") { Description = "run only shard I of N (I/N, from 1): its contiguous slice of the record, into OUT/shards/shard-I-of-N; combine the shards with griddrift gather" };
+        shard.Validators.Add(result =>
+        {
+            try { if (result.GetValueOrDefault<string?>() is { } t) ShardSpec.Parse(t); }
+            catch (FormatException e) { result.AddError(e.Message); }
+        });
+        var command = new Command("run", "Run the whole chain of a recipe; steps whose products are up to date are skipped, so an interrupted run resumes.\n" +
+            "With --shard I/N, run the steps that work on slices of the record (stats, similarity, climatology, and anomalies once the climatology is gathered) for one shard.\n\n" +
+            "Examples:\n  griddrift run griddrift-demo/recipe.toml\n  griddrift run griddrift-demo/recipe.toml --shard 2/4") { recipe, quiet, verbose, shard };
         command.SetAction(parse =>
         {
             var err = parse.InvocationConfiguration.Error;
             bool q = parse.GetValue(quiet);
-            var steps = RecipeRunner.Run(parse.GetValue(recipe)!, q ? null : line => err.WriteLine("griddrift run: " + line), CommonOptions.CommandLine("run", commandLine));
+            var spec = parse.GetValue(shard) is { } st ? ShardSpec.Parse(st) : (ShardSpec?)null;
+            string prefix = spec is { } sp ? $"griddrift run (shard {sp}): " : "griddrift run: ";
+            var steps = RecipeRunner.Run(parse.GetValue(recipe)!, q ? null : line => err.WriteLine(prefix + line), CommonOptions.CommandLine("run", commandLine), spec);
             if (parse.GetValue(verbose)) Describe(err, steps);
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+
+    public static Command Gather(string[] commandLine)
+    {
+        var folders = new Argument<string[]>("SHARD-DIR") { Description = "the shard folders of one sharded run (OUT/shards/shard-I-of-N), all N of them", Arity = ArgumentArity.OneOrMore };
+        var output = new Option<string?>("--out") { Description = "folder for the gathered products (default: the recipe's [input] out)" };
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("gather", "Combine the partial products of the shards of a sharded run into the products of a one-machine run: series joined in time order, " +
+            "climatology states merged. Run griddrift run RECIPE afterwards for the steps that need the whole record (events, attribute, report).\n\n" +
+            "Example:\n  griddrift gather products/shards/shard-*") { folders, output, quiet };
+        command.SetAction(parse =>
+        {
+            var err = parse.InvocationConfiguration.Error;
+            bool q = parse.GetValue(quiet);
+            var done = ShardGather.Run(parse.GetValue(folders)!, parse.GetValue(output), q ? null : line => err.WriteLine("griddrift gather: " + line), CommonOptions.CommandLine("gather", commandLine));
+            foreach (var d in done) parse.InvocationConfiguration.Output.WriteLine($"{d.Step}\t{(d.Skipped ? "up to date" : "gathered")}\t{string.Join(" ", d.Outputs)}");
             return ExitCodes.Success;
         });
         return command;

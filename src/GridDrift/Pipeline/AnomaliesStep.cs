@@ -26,7 +26,8 @@ public sealed record AnomaliesOptions(
     ClassicVariant? Format = null,
     string Command = "griddrift anomalies",
     int Workers = 0,
-    string? Units = null);
+    string? Units = null,
+    FrameSlice? Slice = null);
 
 public sealed record AnomaliesSummary(int Frames, int FramesWithoutSlot, string? Series, IReadOnlyList<string> Warnings);
 
@@ -109,11 +110,12 @@ public static class AnomaliesStep
                     .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
                 w.EndDefinitions();
             }
-            int noSlot = Stream(source, clim, o, mask, plan, w, time, data, series, progress);
+            var slice = o.Slice ?? FrameSlice.Whole(source.FrameCount);
+            int noSlot = Stream(source, slice, clim, o, mask, plan, w, time, data, series, progress);
             if (noSlot > 0) warnings.Add($"{noSlot} frames fall in no slot of the climatology (a time of day it does not hold): their anomalies are missing");
             w?.Commit();
             series?.Complete();
-            return new AnomaliesSummary(source.FrameCount, noSlot, seriesPath, warnings);
+            return new AnomaliesSummary(slice.Count, noSlot, seriesPath, warnings);
         }
         finally
         {
@@ -121,7 +123,7 @@ public static class AnomaliesStep
         }
     }
 
-    static int Stream(FrameSource source, ClimatologyFile clim, AnomaliesOptions o, RegionMask? mask, SeparablePlan? plan,
+    static int Stream(FrameSource source, FrameSlice slice, ClimatologyFile clim, AnomaliesOptions o, RegionMask? mask, SeparablePlan? plan,
         FieldNetCdfWriter? w, ClassicWriter.Definition? time, ClassicWriter.Definition? data, ISeriesSink? series, IProgress<(int, int)>? progress)
     {
         int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount);
@@ -147,9 +149,9 @@ public static class AnomaliesStep
         };
         using var team = new WorkerTeam(workers);
         var record = new float[source.FrameLength];
-        for (batch = 0; batch < source.FrameCount; batch += workers)
+        for (batch = slice.First; batch < slice.End; batch += workers)
         {
-            int n = Math.Min(workers, source.FrameCount - batch);
+            int n = Math.Min(workers, slice.End - batch);
             team.Run(n, work);
             for (int k = 0; k < n; k++)
             {
@@ -157,10 +159,10 @@ public static class AnomaliesStep
                 if (w is not null)
                 {
                     one[0] = source.TimeUnits.Encode(source.Times[batch + k]);
-                    w.Writer.WriteRecord<double>(time!, batch + k, one);
+                    w.Writer.WriteRecord<double>(time!, batch + k - slice.First, one);
                     var a = anomalies[k];
                     for (int i = 0; i < a.Length; i++) record[i] = float.IsNaN(a[i]) ? ClimatologyNetCdfWriter.Fill : a[i];
-                    w.Writer.WriteRecord<float>(data!, batch + k, record);
+                    w.Writer.WriteRecord<float>(data!, batch + k - slice.First, record);
                 }
                 if (series is not null)
                 {
@@ -173,7 +175,7 @@ public static class AnomaliesStep
                     series.Write(source.Times[batch + k], values, valid);
                 }
             }
-            progress?.Report((batch + n, source.FrameCount));
+            progress?.Report((batch + n - slice.First, slice.Count));
         }
         return noSlot;
     }

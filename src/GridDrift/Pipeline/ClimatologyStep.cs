@@ -19,7 +19,11 @@ public sealed record ClimatologyOptions(
     ClassicVariant? Format = null,
     string Command = "griddrift climatology",
     int Workers = 0,
-    string? Units = null);
+    string? Units = null,
+    FrameSlice? Slice = null,
+    string? PartialOut = null,
+    IReadOnlyList<string>? PartialIn = null,
+    IReadOnlyDictionary<string, string>? Attributes = null);
 
 public sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlots, TimePeriod Base, IReadOnlyList<string> Warnings);
 
@@ -27,7 +31,10 @@ public sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlot
 /// `griddrift climatology`: streams the frames of the base period once, adds each to the
 /// running moments of its slot (in parallel over cells), then writes mean, standard deviation
 /// and count per slot as a CF §7.4 climatology. Memory is the slot state (24 bytes per slot and
-/// cell) plus the frames in flight, whatever the length of the record.
+/// cell) plus the frames in flight, whatever the length of the record. A shard of a sharded run
+/// accumulates only its slice and leaves the partial state (<see cref="ClimatologyOptions.PartialOut"/>);
+/// gathering merges the shards' states (<see cref="ClimatologyOptions.PartialIn"/>) and writes
+/// the climatology exactly as a one-machine run would.
 /// </summary>
 public static class ClimatologyStep
 {
@@ -60,7 +67,36 @@ public static class ClimatologyStep
         var provenance = Task.Run(() => Provenance.For(o.Command, source.Files));
         var scheme = SlotScheme.For(o.Kind, calendar, usedTimes);
         using var state = new MomentState(scheme.SlotCount, source.FrameLength);
-        Accumulate(source, used, scheme, state, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+        if (o.PartialIn is { } parts)
+        {
+            double frames = 0;
+            foreach (var part in parts)
+            {
+                var attributes = PartialClimatologyFile.MergeInto(part, state, o.Kind.Name());
+                if (attributes.GetValueOrDefault("climatology_base_period") != basePeriod.ToIsoString())
+                    throw new BadInputException(part, null, $"was made for the base period {attributes.GetValueOrDefault("climatology_base_period")}, not {basePeriod.ToIsoString()}");
+                frames += double.Parse(attributes.GetValueOrDefault("climatology_frames", "0"), CultureInfo.InvariantCulture);
+            }
+            if (frames != used.Length)
+                throw new BadInputException(parts.Count > 0 ? parts[0] : null, null, $"the partial states hold {frames} frames; the base period of the record has {used.Length}: a shard is missing or repeated");
+        }
+        else
+        {
+            var own = o.Slice is { } slice ? used.Where(slice.Contains).ToArray() : used;
+            Accumulate(source, own, scheme, state, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+            if (o.PartialOut is { } partial)
+            {
+                PartialClimatologyFile.Write(partial, state, new Dictionary<string, string>
+                {
+                    ["climatology_kind"] = o.Kind.Name(),
+                    ["climatology_base_period"] = basePeriod.ToIsoString(),
+                    ["climatology_frames"] = own.Length.ToString(CultureInfo.InvariantCulture),
+                    ["frames_of_record"] = o.Slice is { } s ? $"{s.First}..{s.End - 1} of {source.FrameCount}" : $"all {source.FrameCount}",
+                    ["history"] = $"{DateTime.UtcNow:yyyy-MM-ddTHH:mm:ssZ} {o.Command}",
+                });
+                return new ClimatologySummary(own.Length, scheme.SlotCount, 0, basePeriod, warnings);
+            }
+        }
 
         var fields = ClimatologyFields.From(state, smoothing);
         var slots = SlotPeriods.From(scheme, usedTimes, basePeriod, source.Step);
@@ -68,7 +104,7 @@ public static class ClimatologyStep
         if (empty > 0) warnings.Add($"{empty} of {scheme.SlotCount} slots have no sample in the base period: their values are missing");
         var template = FieldTemplate.From(source);
         var calendarAttribute = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
-        var globals = provenance.GetAwaiter().GetResult().AsKeyValues(new Dictionary<string, string>
+        var extra = new Dictionary<string, string>
         {
             ["title"] = $"Climatology ({o.Kind.Name()}) of {o.Variable}",
             ["climatology_kind"] = o.Kind.Name(),
@@ -80,7 +116,9 @@ public static class ClimatologyStep
             ["climatology_smoothing"] = smoothing?.Describe() ?? "none",
             ["climatology_statistics"] = "per slot and cell: mean, population standard deviation (divisor n) and number of valid samples, " +
                 "accumulated in float64 by Welford's update (Welford 1962), mergeable by Chan, Golub & LeVeque (1983)",
-        });
+        };
+        foreach (var (k, v) in o.Attributes ?? new Dictionary<string, string>()) extra[k] = v;
+        var globals = provenance.GetAwaiter().GetResult().AsKeyValues(extra);
         ClimatologyNetCdfWriter.Write(o.Output, template, o.Variable, scheme, fields, slots, source.TimeUnits, calendarAttribute, globals, o.Format);
         return new ClimatologySummary(used.Length, scheme.SlotCount, empty, basePeriod, warnings);
     }

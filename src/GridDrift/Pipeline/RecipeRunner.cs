@@ -23,28 +23,51 @@ public static class RecipeRunner
 {
     public static readonly string[] Order = ["stats", "similarity", "climatology", "anomalies", "events", "attribute", "report"];
 
-    public static IReadOnlyList<StepOutcome> Run(string recipePath, Action<string>? log = null, string command = "griddrift run")
+    /// <summary>The steps a shard runs: each reads only its slice of the record (and, for pairs, the frames just before it).</summary>
+    public static readonly string[] Sharded = ["stats", "similarity", "climatology", "anomalies"];
+
+    public static IReadOnlyList<StepOutcome> Run(string recipePath, Action<string>? log = null, string command = "griddrift run", ShardSpec? shard = null)
     {
         var recipe = Recipe.Load(recipePath);
         string Resolve(string p) => Path.IsPathRooted(p) ? p : Path.Combine(recipe.Folder, p);
-        var patterns = recipe.List("input", "files").Select(Resolve).ToArray();
-        var inputs = InputPaths.Expand(patterns);
+        var inputs = Inputs(recipe);
         string variable = recipe.Text("input", "variable");
         var regions = recipe.List("input", "regions", ["global"]);
-        string outDir = Resolve(recipe.Text("input", "out", "products"));
+        string mainDir = OutFolder(recipe);
+        string outDir = shard is { } sh ? sh.Folder(mainDir) : mainDir;
         Directory.CreateDirectory(outDir);
-        string Product(string name) => Path.IsPathRooted(name) ? name : Path.Combine(outDir, name);
+        string MainProduct(string name) => Path.IsPathRooted(name) ? name : Path.Combine(mainDir, name);
+        string Product(string name) => Path.IsPathRooted(name) && shard is null ? name : Path.Combine(outDir, Path.IsPathRooted(name) ? Path.GetFileName(name) : name);
         string stateDir = Path.Combine(outDir, ".griddrift-run");
         Directory.CreateDirectory(stateDir);
         using var runLock = RunLock.Take(stateDir, outDir);
+        FrameSlice? slice = null;
+        if (shard is { } spec)
+        {
+            if (recipe.Has("anomalies") && recipe.Flag("anomalies", "fields", false))
+                throw new BadInputException(recipe.Path, "anomalies.fields", $"line {recipe.Sections["anomalies"].Keys["fields"].Line}: anomaly fields are written by one-machine runs only; drop 'fields' or run without --shard");
+            slice = ShardManifest.Begin(recipe, spec, inputs, variable, outDir);
+        }
         var outcomes = new List<StepOutcome>();
 
         foreach (var step in Order.Where(recipe.Has))
         {
             string how = $"{command} {recipePath} [{step}]";
-            var (stepInputs, outputs) = Plan(recipe, step, inputs, Product, Resolve);
+            if (shard is not null && !Sharded.Contains(step))
+            {
+                log?.Invoke($"{step}: needs the whole record; it runs after griddrift gather");
+                continue;
+            }
+            var (stepInputs, outputs) = Plan(recipe, step, inputs, Product, Resolve, shard is null ? null : MainProduct);
+            if (shard is not null && step == "climatology") outputs = [ShardManifest.PartialName(outputs[0])];
+            if (shard is not null && step == "anomalies" && !GatheredClimatologyHolds(recipe, mainDir, MainProduct))
+            {
+                log?.Invoke("anomalies: waits for the gathered climatology (griddrift gather, then run this shard again)");
+                continue;
+            }
+            string fingerprint = shard is { } f ? f.Fingerprint(recipe.Fingerprint(step)) : recipe.Fingerprint(step);
             var checkpoint = Path.Combine(stateDir, step + ".json");
-            if (UpToDate(checkpoint, recipe.Fingerprint(step), stepInputs, outputs, out var kept))
+            if (UpToDate(checkpoint, fingerprint, stepInputs, outputs, out var kept))
             {
                 outcomes.Add(new StepOutcome(step, true, outputs, kept, TimeSpan.Zero));
                 log?.Invoke($"{step}: up to date, skipped");
@@ -53,10 +76,10 @@ public static class RecipeRunner
             var clock = System.Diagnostics.Stopwatch.StartNew();
             var summary = step switch
             {
-                "stats" => RunStats(recipe, inputs, variable, regions, outputs, how),
-                "similarity" => RunSimilarity(recipe, inputs, variable, regions, outputs, how),
-                "climatology" => RunClimatology(recipe, inputs, variable, outputs, how),
-                "anomalies" => RunAnomalies(recipe, inputs, variable, regions, stepInputs[^1], outputs, how),
+                "stats" => RunStats(recipe, inputs, variable, regions, outputs, how, slice),
+                "similarity" => RunSimilarity(recipe, inputs, variable, regions, outputs, how, slice),
+                "climatology" => RunClimatology(recipe, inputs, variable, outputs, how, slice),
+                "anomalies" => RunAnomalies(recipe, inputs, variable, regions, stepInputs[^1], outputs, how, slice),
                 "events" => EventsStep.Run(new EventsOptions(stepInputs[0], outputs[0], recipe.OptionalText("events", "quantity"), null, EventsAnalysis(recipe), how,
                     recipe.OptionalText("events", "plots") is { } ep ? Product(ep) : null)).Json,
                 "attribute" => AttributeStep.Run(new AttributeOptions(stepInputs[0], recipe.Text("attribute", "target", "global"), outputs[0],
@@ -66,14 +89,42 @@ public static class RecipeRunner
             };
             var done = new StepOutcome(step, false, outputs, summary, clock.Elapsed);
             outcomes.Add(done);
-            WriteCheckpoint(checkpoint, recipe.Fingerprint(step), outputs, summary);
+            WriteCheckpoint(checkpoint, fingerprint, outputs, summary);
             log?.Invoke($"{step}: done in {clock.Elapsed.TotalSeconds:0.0} s");
         }
         return outcomes;
     }
 
+    public static IReadOnlyList<string> Inputs(Recipe recipe)
+    {
+        string Resolve(string p) => Path.IsPathRooted(p) ? p : Path.Combine(recipe.Folder, p);
+        return InputPaths.Expand(recipe.List("input", "files").Select(Resolve).ToArray());
+    }
+
+    public static string OutFolder(Recipe recipe)
+    {
+        string o = recipe.Text("input", "out", "products");
+        return Path.GetFullPath(Path.IsPathRooted(o) ? o : Path.Combine(recipe.Folder, o));
+    }
+
+    /// <summary>The products of a one-machine run of <paramref name="step"/> in <paramref name="outDir"/>.</summary>
+    public static string[] Products(Recipe recipe, string step, string outDir)
+    {
+        string Product(string name) => Path.IsPathRooted(name) ? name : Path.Combine(outDir, name);
+        string Resolve(string p) => Path.IsPathRooted(p) ? p : Path.Combine(recipe.Folder, p);
+        return Plan(recipe, step, [], Product, Resolve, null).Outputs;
+    }
+
+    static bool GatheredClimatologyHolds(Recipe recipe, string mainDir, Func<string, string> product)
+    {
+        var (inputs, outputs) = Plan(recipe, "climatology", Inputs(recipe), product, p => p, null);
+        return UpToDate(Path.Combine(mainDir, ".griddrift-run", "climatology.json"), recipe.Fingerprint("climatology"), inputs.ToArray(), outputs, out _);
+    }
+
     /// <summary>The files a step reads and the products it writes.</summary>
-    static (string[] Inputs, string[] Outputs) Plan(Recipe r, string step, IReadOnlyList<string> inputs, Func<string, string> product, Func<string, string> resolve)
+    /// <param name="mainProduct">in a shard: where the gathered products of earlier stages are (the climatology anomalies need)</param>
+    static (string[] Inputs, string[] Outputs) Plan(Recipe r, string step, IReadOnlyList<string> inputs, Func<string, string> product, Func<string, string> resolve,
+        Func<string, string>? mainProduct)
     {
         string Out(string section, string fallback) => product(r.OptionalText(section, "out") ?? fallback);
         string Stem(string path, string suffix) => Path.Combine(Path.GetDirectoryName(path)!, Path.GetFileNameWithoutExtension(path) + suffix);
@@ -91,7 +142,7 @@ public static class RecipeRunner
                 return (inputs.ToArray(), [Out(step, "climatology.nc")]);
             case "anomalies":
             {
-                string clim = r.Has("climatology") ? Out("climatology", "climatology.nc")
+                string clim = r.Has("climatology") ? (mainProduct ?? product)(r.OptionalText("climatology", "out") ?? "climatology.nc")
                     : throw new BadInputException(r.Path, "anomalies", $"line {r.Sections["anomalies"].Line}: [anomalies] needs a [climatology] step");
                 string o = Out(step, "anomalies.nc");
                 var outs = new List<string> { o };
@@ -112,13 +163,13 @@ public static class RecipeRunner
             default:
             {
                 string o = Out("report", "report");
-                var earlier = Order.Where(s => s != "report" && r.Has(s)).SelectMany(s => Plan(r, s, inputs, product, resolve).Outputs).ToArray();
+                var earlier = Order.Where(s => s != "report" && r.Has(s)).SelectMany(s => Plan(r, s, inputs, product, resolve, null).Outputs).ToArray();
                 return (earlier, [o + ".md", o + ".html"]);
             }
         }
     }
 
-    static bool UpToDate(string checkpoint, string fingerprint, string[] inputs, string[] outputs, out JsonObject summary)
+    internal static bool UpToDate(string checkpoint, string fingerprint, string[] inputs, string[] outputs, out JsonObject summary)
     {
         summary = new JsonObject();
         if (!File.Exists(checkpoint)) return false;
@@ -135,7 +186,7 @@ public static class RecipeRunner
         catch (JsonException) { return false; }
     }
 
-    static void WriteCheckpoint(string path, string fingerprint, string[] outputs, JsonObject summary)
+    internal static void WriteCheckpoint(string path, string fingerprint, string[] outputs, JsonObject summary)
     {
         var json = new JsonObject { ["fingerprint"] = fingerprint, ["outputs"] = new JsonArray(outputs.Select(o => (JsonNode)o).ToArray()), ["summary"] = summary.DeepClone() };
         string temp = path + ".part";
@@ -143,37 +194,45 @@ public static class RecipeRunner
         File.Move(temp, path, overwrite: true);
     }
 
-    static JsonObject RunStats(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string[] outputs, string how)
+    static JsonObject RunStats(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string[] outputs, string how, FrameSlice? slice)
     {
         var statistics = r.List("stats", "statistics", ["mean", "std", "valid"]).Select(RegionStatistics.Parse).Distinct().ToArray();
         var s = StatsStep.Run(new StatsOptions(inputs, variable, regions, statistics, outputs[0], outputs.Length > 1 ? outputs[1] : null,
-            r.Number("stats", "min_valid", 0.5), Command: how));
+            r.Number("stats", "min_valid", 0.5), Command: how, Slice: slice));
         return new JsonObject { ["frames"] = s.Frames, ["regions"] = s.Regions };
     }
 
-    static JsonObject RunSimilarity(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string[] outputs, string how)
+    static JsonObject RunSimilarity(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string[] outputs, string how, FrameSlice? slice)
     {
         var metrics = r.List("similarity", "metrics", ["ssim", "corr", "rmsd", "mean-abs-change"]).Select(SimilarityMetrics.Parse).Distinct().ToArray();
         var s = SimilarityStep.Run(new SimilarityOptions(inputs, variable, regions, metrics, outputs[0], outputs.Length > 1 ? outputs[1] : null,
-            (int)r.Number("similarity", "lag", 1), r.OptionalText("similarity", "range"), MinValid: r.Number("similarity", "min_valid", 0.5), Command: how));
+            (int)r.Number("similarity", "lag", 1), r.OptionalText("similarity", "range"), MinValid: r.Number("similarity", "min_valid", 0.5), Command: how, Slice: slice));
         return new JsonObject { ["pairs"] = s.Pairs, ["regions"] = s.Regions };
     }
 
-    static JsonObject RunClimatology(Recipe r, IReadOnlyList<string> inputs, string variable, string[] outputs, string how)
+    internal static ClimatologyKind ClimatologyKindOf(Recipe r)
     {
         string byText = r.Text("climatology", "by", "month");
-        var kind = ClimatologyKinds.Parse(byText) ?? throw new BadInputException(r.Path, "climatology.by", $"'{byText}' is not month, day-of-year or hour-by-month");
-        var s = ClimatologyStep.Run(new ClimatologyOptions(inputs, variable, kind, outputs[0], r.OptionalText("climatology", "base"), r.OptionalText("climatology", "smooth"), Command: how));
-        return new JsonObject { ["frames"] = s.FramesUsed, ["slots"] = s.Slots, ["base"] = s.Base.ToIsoString(), ["warnings"] = new JsonArray(s.Warnings.Select(w => (JsonNode)w).ToArray()) };
+        return ClimatologyKinds.Parse(byText) ?? throw new BadInputException(r.Path, "climatology.by", $"'{byText}' is not month, day-of-year or hour-by-month");
     }
 
-    static JsonObject RunAnomalies(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string climatology, string[] outputs, string how)
+    internal static JsonObject ClimatologySummaryJson(ClimatologySummary s) =>
+        new() { ["frames"] = s.FramesUsed, ["slots"] = s.Slots, ["base"] = s.Base.ToIsoString(), ["warnings"] = new JsonArray(s.Warnings.Select(w => (JsonNode)w).ToArray()) };
+
+    static JsonObject RunClimatology(Recipe r, IReadOnlyList<string> inputs, string variable, string[] outputs, string how, FrameSlice? slice)
+    {
+        var s = ClimatologyStep.Run(new ClimatologyOptions(inputs, variable, ClimatologyKindOf(r), outputs[0], r.OptionalText("climatology", "base"), r.OptionalText("climatology", "smooth"),
+            Command: how, Slice: slice, PartialOut: slice is null ? null : outputs[0]));
+        return ClimatologySummaryJson(s);
+    }
+
+    static JsonObject RunAnomalies(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string climatology, string[] outputs, string how, FrameSlice? slice)
     {
         string kindText = r.Text("anomalies", "kind", "absolute");
         var kind = Anomaly.Parse(kindText) ?? throw new BadInputException(r.Path, "anomalies.kind", $"'{kindText}' is not absolute, relative or standardized");
         string? table = outputs.Skip(1).FirstOrDefault(o => o.EndsWith(".parquet", StringComparison.Ordinal));
         string? fields = outputs.Skip(1).FirstOrDefault(o => o.EndsWith("_fields.nc", StringComparison.Ordinal));
-        var s = AnomaliesStep.Run(new AnomaliesOptions(inputs, variable, climatology, kind, fields, regions, table, outputs[0], Command: how));
+        var s = AnomaliesStep.Run(new AnomaliesOptions(inputs, variable, climatology, kind, fields, regions, table, outputs[0], Command: how, Slice: slice));
         return new JsonObject { ["frames"] = s.Frames };
     }
 

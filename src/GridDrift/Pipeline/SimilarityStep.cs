@@ -30,7 +30,8 @@ public sealed record SimilarityOptions(
     string Command = "griddrift similarity",
     int Workers = 0,
     IReadOnlyList<string>? Reference = null,
-    string? Units = null);
+    string? Units = null,
+    FrameSlice? Slice = null);
 
 public sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions);
 
@@ -84,6 +85,12 @@ public static class SimilarityStep
             if (pairs.Count == 0) throw new BadInputException(source.Files[0], o.Variable, "no time step is shared with the reference");
         }
         else pairs = Pairs(source, o.Lag, o.AcrossGaps, reference is not null, out skipped);
+        if (o.Slice is { } slice)
+        {
+            // a shard owns the pairs whose later frame is its own; the earlier frame may lie in the slice before
+            pairs = pairs.Where(p => slice.Contains(p.Later)).ToList();
+            skipped = slice.Count == 0 ? [] : skipped.Where(s => s.Later >= source.Times[slice.First] && s.Later <= source.Times[slice.End - 1]).ToList();
+        }
 
         string units = source.Units;
         var quantities = o.Metrics.Select(m => Quantity(m, o.Variable, units)).ToList();

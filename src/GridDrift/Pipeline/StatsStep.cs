@@ -22,7 +22,8 @@ public sealed record StatsOptions(
     ClassicVariant? Format = null,
     string Command = "griddrift stats",
     int Workers = 0,
-    string? Units = null);
+    string? Units = null,
+    FrameSlice? Slice = null);
 
 /// <summary>What a stats run did, for the summary line and for tests.</summary>
 public sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionMask Mask);
@@ -61,12 +62,14 @@ public static class StatsStep
             });
 
         using var products = new SeriesProducts(o.Output, o.Table, layout, o.Format);
-        var counts = Stream(source, mask, plan, o.Statistics, statistics.Length, o.MinValid, products, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+        var slice = o.Slice ?? FrameSlice.Whole(source.FrameCount);
+        if (slice.End > source.FrameCount) throw new ArgumentOutOfRangeException(nameof(o.Slice), $"frames {slice.First}..{slice.End} lie beyond the record's {source.FrameCount}");
+        var counts = Stream(source, slice, mask, plan, o.Statistics, statistics.Length, o.MinValid, products, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
         products.Complete();
-        return new StatsSummary(source.FrameCount, mask.Count, (long)source.FrameCount * mask.Count * statistics.Length, counts.Below, counts.NoData, grid, mask);
+        return new StatsSummary(slice.Count, mask.Count, (long)slice.Count * mask.Count * statistics.Length, counts.Below, counts.NoData, grid, mask);
     }
 
-    static (long Below, long NoData) Stream(FrameSource source, RegionMask mask, SeparablePlan? plan, IReadOnlyList<RegionStatistic> requested, int quantities,
+    static (long Below, long NoData) Stream(FrameSource source, FrameSlice slice, RegionMask mask, SeparablePlan? plan, IReadOnlyList<RegionStatistic> requested, int quantities,
         double minValid, ISeriesSink sink, int workers, IProgress<(int, int)>? progress)
     {
         var withValid = requested.Where(s => s != RegionStatistic.Valid).Append(RegionStatistic.Valid).ToArray();
@@ -77,9 +80,9 @@ public static class StatsStep
         var values = new double[mask.Count * quantities];
         var valid = new double[mask.Count];
         long below = 0, noData = 0;
-        for (int batch = 0; batch < source.FrameCount; batch += workers)
+        for (int batch = slice.First; batch < slice.End; batch += workers)
         {
-            int n = Math.Min(workers, source.FrameCount - batch);
+            int n = Math.Min(workers, slice.End - batch);
             Parallel.For(0, n, new ParallelOptions { MaxDegreeOfParallelism = workers }, w =>
             {
                 source.ReadFrame(batch + w, frames[w]);
@@ -100,7 +103,7 @@ public static class StatsStep
                 }
                 sink.Write(source.Times[batch + w], values, valid);
             }
-            progress?.Report((batch + n, source.FrameCount));
+            progress?.Report((batch + n - slice.First, slice.Count));
         }
         return (below, noData);
     }
