@@ -1,0 +1,171 @@
+using System.Text.Json;
+using CsCheck;
+using GridDrift.Climatology;
+using GridDrift.Frames;
+using GridDrift.Outputs.Fields;
+using GridDrift.Pipeline;
+using GridDrift.Tests.Support;
+
+namespace GridDrift.Tests.Pipeline;
+
+/// <summary>
+/// Sharded runs: N shards (`griddrift run --shard I/N`) plus `griddrift gather` give the
+/// products of a one-machine run. Series are compared value for value and the climatology to
+/// float32 rounding, both read by python netCDF4 (Interop/scripts/compare_products.py), and the
+/// Parquet tables through DuckDB; merged partial climatology states are compared with numpy's
+/// float64 group statistics of the record at 1e-12 relative.
+/// </summary>
+public class ShardTests
+{
+    [Fact]
+    public void Shard_slices_tile_the_record() =>
+        Gen.Select(Gen.Int[0, 100_000], Gen.Int[1, 64]).Sample((frames, shards) =>
+        {
+            int next = 0;
+            for (int i = 1; i <= shards; i++)
+            {
+                var s = FrameSlice.OfShard(i, shards, frames);
+                if (s.First != next) return false;
+                if (Math.Abs(s.Count - (double)frames / shards) >= 1) return false;
+                next = s.End;
+            }
+            return next == frames;
+        });
+
+    [Theory]
+    [InlineData("2/4", 2, 4)]
+    [InlineData("1/1", 1, 1)]
+    public void Shard_spec_parses(string text, int index, int count) => Assert.Equal(new ShardSpec(index, count), ShardSpec.Parse(text));
+
+    [Theory]
+    [InlineData("0/4")]
+    [InlineData("5/4")]
+    [InlineData("2")]
+    [InlineData("a/b")]
+    public void A_bad_shard_is_a_usage_error(string text)
+    {
+        using var dir = new TempFolder();
+        File.WriteAllText(dir.File("r.toml"), "[input]\nfiles = [\"x.nc\"]\nvariable = \"v\"\n");
+        var outcome = CliRun.Run("run", dir.File("r.toml"), "--shard", text);
+        Assert.Equal(1, outcome.ExitCode);
+        Assert.Contains("I/N", outcome.Stderr);
+    }
+
+    [InteropFact(Needs.PythonNetcdf)]
+    public void Merged_partial_states_equal_numpy_moments_of_the_whole_record()
+    {
+        using var dir = new TempFolder();
+        string input = SampleFiles.Record(dir.File("in.nc"), frames: 400, nlat: 5, nlon: 7, stepHours: 24, missing: (t, c) => (t * 7 + c) % 13 == 0);
+        var partials = new List<string>();
+        for (int i = 1; i <= 3; i++)
+        {
+            string part = dir.File($"part{i}.nc");
+            var slice = FrameSlice.OfShard(i, 3, 400);
+            var s = ClimatologyStep.Run(new ClimatologyOptions([input], "tcwv", ClimatologyKind.Month, dir.File("unused.nc"), Slice: slice, PartialOut: part));
+            Assert.Equal(slice.Count, s.FramesUsed);
+            partials.Add(part);
+        }
+        using var merged = new MomentState(12, 35);
+        foreach (var p in partials) PartialClimatologyFile.MergeInto(p, merged, "month");
+        PartialClimatologyFile.Write(dir.File("merged.nc"), merged, new Dictionary<string, string> { ["climatology_kind"] = "month" });
+
+        var json = JsonDocument.Parse(ExternalTools.RunPython("partial_state_reference.py", input, "tcwv", dir.File("merged.nc"))).RootElement;
+        int compared = 0;
+        foreach (var quantity in new[] { "mean", "std", "count" })
+        {
+            var expected = json.GetProperty("reference").GetProperty(quantity).EnumerateArray().ToArray();
+            var ours = json.GetProperty("ours").GetProperty(quantity).EnumerateArray().ToArray();
+            Assert.Equal(expected.Length, ours.Length);
+            for (int i = 0; i < expected.Length; i++)
+            {
+                Assert.Equal(expected[i].ValueKind, ours[i].ValueKind);
+                if (expected[i].ValueKind == JsonValueKind.Null) continue;
+                double e = expected[i].GetDouble(), o = ours[i].GetDouble();
+                Assert.True(Math.Abs(o - e) <= 1e-12 * Math.Abs(e), $"{quantity}[{i}]: numpy {e:R}, merged shards {o:R}");
+                compared++;
+            }
+        }
+        Assert.True(compared > 3 * 12 * 35 * 3 / 4, $"only {compared} values compared");
+    }
+
+    [InteropFact(Needs.PythonNetcdf)]
+    public void Four_shards_gathered_equal_a_one_machine_run()
+    {
+        using var dir = new TempFolder();
+        Assert.Equal(0, CliRun.Run("demo", "--size", "small", "--out", dir.Path, "--quiet").ExitCode);
+        string recipe = dir.File("sharded.toml");
+        File.WriteAllText(recipe, File.ReadAllText(dir.File("recipe.toml")).Replace("out = \"products\"", "out = \"sharded\""));
+        string sharded = dir.File("sharded");
+        string[] Folders() => Enumerable.Range(1, 4).Select(i => new ShardSpec(i, 4).Folder(sharded)).ToArray();
+
+        for (int stage = 0; stage < 2; stage++)
+        {
+            for (int i = 1; i <= 4; i++)
+            {
+                var shard = CliRun.Run("run", recipe, "--shard", $"{i}/4");
+                Assert.True(shard.ExitCode == 0, shard.Stderr);
+            }
+            var gather = CliRun.Run(["gather", .. Folders()]);
+            Assert.True(gather.ExitCode == 0, gather.Stderr);
+            Assert.Contains(stage == 0 ? "anomalies: no shard has run it yet" : "anomalies: gathered 4 shards", gather.Stderr);
+        }
+        var finish = CliRun.Run("run", recipe);
+        Assert.True(finish.ExitCode == 0, finish.Stderr);
+        foreach (var step in new[] { "stats", "similarity", "climatology", "anomalies" }) Assert.Contains($"{step}: up to date, skipped", finish.Stderr);
+
+        var json = JsonDocument.Parse(ExternalTools.RunPython("compare_products.py", dir.File("products"), sharded,
+            "stats.nc", "similarity.nc", "climatology.nc", "anomalies.nc")).RootElement;
+        foreach (var file in new[] { "stats.nc", "similarity.nc" })
+            foreach (var v in json.GetProperty(file).GetProperty("variables").EnumerateObject())
+                Assert.True(v.Value.GetProperty("identical").GetBoolean(), $"{file}:{v.Name} differs from the one-machine run by {v.Value.GetProperty("max_abs").GetDouble():R}");
+        // the climatology is stored in float32: merged and one-pass moments agree to 1e-12 in float64, so at most one float32 step apart
+        var clim = json.GetProperty("climatology.nc").GetProperty("variables");
+        foreach (var name in new[] { "tb", "tb_std" })
+        {
+            var v = clim.GetProperty(name);
+            Assert.True(v.GetProperty("same_shape").GetBoolean());
+            Assert.True(v.GetProperty("max_abs").GetDouble() <= v.GetProperty("max_value").GetDouble() * Math.Pow(2, -23), $"climatology {name} differs by {v.GetProperty("max_abs").GetDouble():R}");
+        }
+        Assert.True(clim.GetProperty("tb_count").GetProperty("identical").GetBoolean());
+        // anomalies inherit that float32 step of the climatology mean (Tb near 300 K: 2^-15 K)
+        var anomaly = json.GetProperty("anomalies.nc").GetProperty("variables").GetProperty("anomaly");
+        Assert.True(anomaly.GetProperty("max_abs").GetDouble() <= 320 * Math.Pow(2, -23), $"anomalies differ by {anomaly.GetProperty("max_abs").GetDouble():R}");
+        var shardsAttribute = json.GetProperty("stats.nc").GetProperty("attributes").GetProperty("griddrift_shards").GetString()!;
+        Assert.Equal(4, shardsAttribute.Split('\n').Length);
+        for (int i = 1; i <= 4; i++) Assert.Contains($"shard {i}/4: frames", shardsAttribute);
+
+        using var db = DuckDb.Open();
+        foreach (var table in new[] { "stats.parquet", "similarity.parquet", "events_changepoints.parquet", "events.parquet" })
+        {
+            string a = Path.Combine(dir.Path, "products", table), b = Path.Combine(sharded, table);
+            long rows = Convert.ToInt64(DuckDb.Query(db, $"SELECT count(*) FROM read_parquet('{a}')")[0][0]);
+            Assert.True(rows > 0, table);
+            var differing = DuckDb.Query(db, $"SELECT count(*) FROM ((SELECT * FROM read_parquet('{a}') EXCEPT ALL SELECT * FROM read_parquet('{b}')) UNION ALL (SELECT * FROM read_parquet('{b}') EXCEPT ALL SELECT * FROM read_parquet('{a}')))");
+            Assert.Equal(0L, Convert.ToInt64(differing[0][0]));
+        }
+    }
+
+    [Fact]
+    public void Gather_refuses_a_missing_a_repeated_or_an_unfinished_shard()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 40, stepHours: 24);
+        string recipe = dir.File("r.toml");
+        File.WriteAllText(recipe, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"products\"\n\n[stats]\nout = \"stats.nc\"\n\n[climatology]\nby = \"month\"\n");
+        for (int i = 1; i <= 3; i++) Assert.Equal(0, CliRun.Run("run", recipe, "--shard", $"{i}/3", "--quiet").ExitCode);
+        string F(int i) => new ShardSpec(i, 3).Folder(dir.File("products"));
+
+        var missing = CliRun.Run("gather", F(1), F(3));
+        Assert.Equal(2, missing.ExitCode);
+        Assert.Contains("shards 2 of 3 are missing", missing.Stderr);
+        var repeated = CliRun.Run("gather", F(1), F(2), F(2), F(3));
+        Assert.Equal(2, repeated.ExitCode);
+        Assert.Contains("shard 2 is given twice", repeated.Stderr);
+
+        File.Delete(Path.Combine(F(2), ".griddrift-run", "stats.json"));
+        var unfinished = CliRun.Run("gather", F(1), F(2), F(3));
+        Assert.Equal(2, unfinished.ExitCode);
+        Assert.Contains("shards 2 of 3 have not finished stats", unfinished.Stderr);
+        Assert.False(File.Exists(dir.File("products/stats.nc")));
+    }
+}
