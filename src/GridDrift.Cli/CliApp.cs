@@ -25,6 +25,7 @@ public static class CliApp
         root.Subcommands.Add(DeriveCommand.Build(args ?? []));
         root.Subcommands.Add(RunCommands.Run(args ?? []));
         root.Subcommands.Add(RunCommands.Gather(args ?? []));
+        root.Subcommands.Add(RunCommands.Submit(args ?? []));
         root.Subcommands.Add(RunCommands.Demo(args ?? []));
         return root;
     }

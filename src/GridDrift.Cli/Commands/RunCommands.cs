@@ -53,6 +53,52 @@ public static class RunCommands
         return command;
     }
 
+    public static Command Submit(string[] commandLine)
+    {
+        var recipe = new Argument<string>("RECIPE") { Description = "the recipe to run sharded" };
+        var shards = new Option<int>("--shards") { Description = "number of shards (contiguous time slices of the record)", Required = true };
+        var scheduler = new Option<string>("--scheduler") { Description = "the cluster's batch scheduler", Required = true };
+        scheduler.AcceptOnlyFromAmong("slurm");
+        var dryRun = new Option<bool>("--dry-run") { Description = "write the batch scripts and print the sbatch commands, submit nothing" };
+        var wait = new Option<bool>("--wait") { Description = "follow the jobs until every task has ended and report each task's state; exit 4 if any failed" };
+        var partition = new Option<string?>("--partition") { Description = "passed to every job as sbatch --partition" };
+        var time = new Option<string?>("--time") { Description = "passed to every job as sbatch --time (e.g. 02:00:00)" };
+        var memory = new Option<string?>("--mem") { Description = "passed to every job as sbatch --mem (e.g. 8G)" };
+        var account = new Option<string?>("--account") { Description = "passed to every job as sbatch --account" };
+        var extra = new Option<string[]>("--sbatch-option") { Description = "any other sbatch option for every job, e.g. --sbatch-option=--qos=short (repeatable)", AllowMultipleArgumentsPerToken = false };
+        var quiet = CommonOptions.Quiet();
+        var command = new Command("submit", "Run a recipe sharded on a batch cluster: one array job per sharded stage, chained with afterok dependencies, and a final gather job.\n\n" +
+            "Examples:\n  griddrift submit recipe.toml --shards 8 --scheduler slurm --dry-run\n  griddrift submit recipe.toml --shards 8 --scheduler slurm --partition compute --time 04:00:00 --mem 16G --wait")
+            { recipe, shards, scheduler, dryRun, wait, partition, time, memory, account, extra, quiet };
+        command.SetAction(parse =>
+        {
+            var err = parse.InvocationConfiguration.Error;
+            var outp = parse.InvocationConfiguration.Output;
+            bool q = parse.GetValue(quiet), dry = parse.GetValue(dryRun);
+            if (!dry && !GridDrift.Pipeline.Cluster.SlurmClient.Available)
+                throw new BadInputException(null, null, "sbatch and scontrol are not on PATH: griddrift submit --scheduler slurm runs where Slurm's client commands are (Debian: apt-get install slurm-client); --dry-run only writes the scripts");
+            var options = new GridDrift.Pipeline.Cluster.SubmitOptions(parse.GetValue(recipe)!, parse.GetValue(shards), SelfCommand(),
+                new GridDrift.Pipeline.Cluster.BatchOptions(parse.GetValue(partition), parse.GetValue(time), parse.GetValue(memory), parse.GetValue(account), parse.GetValue(extra)),
+                dry, parse.GetValue(wait));
+            var report = GridDrift.Pipeline.Cluster.SlurmSubmission.Run(options, dry ? outp.WriteLine : q ? null : line => err.WriteLine("griddrift submit: " + line));
+            foreach (var t in report.Tasks)
+                outp.WriteLine($"{t.Stage}\t{(t.Task is null ? "-" : t.Task + "/" + options.Shards)}\t{t.State}\t{t.ExitCode}\t{t.Log}");
+            foreach (var problem in report.Problems) err.WriteLine("griddrift submit: " + problem);
+            return report.Succeeded ? ExitCodes.Success : ExitCodes.JobsFailed;
+        });
+        return command;
+    }
+
+    /// <summary>How a batch job calls this same GridDrift: the published binary, or dotnet with this assembly.</summary>
+    static string SelfCommand()
+    {
+        string self = Environment.ProcessPath ?? "griddrift";
+        string assembly = typeof(RunCommands).Assembly.Location;
+        return Path.GetFileNameWithoutExtension(self) == "dotnet"
+            ? $"{GridDrift.Pipeline.Cluster.BatchStage.Quote(self)} {GridDrift.Pipeline.Cluster.BatchStage.Quote(assembly)}"
+            : GridDrift.Pipeline.Cluster.BatchStage.Quote(self);
+    }
+
     static Option<bool> Verbose() => new("--verbose") { Description = "also list each step's products and summary" };
 
     static void Describe(TextWriter err, IReadOnlyList<StepOutcome> steps)

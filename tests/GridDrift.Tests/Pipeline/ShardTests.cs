@@ -113,36 +113,7 @@ public class ShardTests
         Assert.True(finish.ExitCode == 0, finish.Stderr);
         foreach (var step in new[] { "stats", "similarity", "climatology", "anomalies" }) Assert.Contains($"{step}: up to date, skipped", finish.Stderr);
 
-        var json = JsonDocument.Parse(ExternalTools.RunPython("compare_products.py", dir.File("products"), sharded,
-            "stats.nc", "similarity.nc", "climatology.nc", "anomalies.nc")).RootElement;
-        foreach (var file in new[] { "stats.nc", "similarity.nc" })
-            foreach (var v in json.GetProperty(file).GetProperty("variables").EnumerateObject())
-                Assert.True(v.Value.GetProperty("identical").GetBoolean(), $"{file}:{v.Name} differs from the one-machine run by {v.Value.GetProperty("max_abs").GetDouble():R}");
-        // the climatology is stored in float32: merged and one-pass moments agree to 1e-12 in float64, so at most one float32 step apart
-        var clim = json.GetProperty("climatology.nc").GetProperty("variables");
-        foreach (var name in new[] { "tb", "tb_std" })
-        {
-            var v = clim.GetProperty(name);
-            Assert.True(v.GetProperty("same_shape").GetBoolean());
-            Assert.True(v.GetProperty("max_abs").GetDouble() <= v.GetProperty("max_value").GetDouble() * Math.Pow(2, -23), $"climatology {name} differs by {v.GetProperty("max_abs").GetDouble():R}");
-        }
-        Assert.True(clim.GetProperty("tb_count").GetProperty("identical").GetBoolean());
-        // anomalies inherit that float32 step of the climatology mean (Tb near 300 K: 2^-15 K)
-        var anomaly = json.GetProperty("anomalies.nc").GetProperty("variables").GetProperty("anomaly");
-        Assert.True(anomaly.GetProperty("max_abs").GetDouble() <= 320 * Math.Pow(2, -23), $"anomalies differ by {anomaly.GetProperty("max_abs").GetDouble():R}");
-        var shardsAttribute = json.GetProperty("stats.nc").GetProperty("attributes").GetProperty("griddrift_shards").GetString()!;
-        Assert.Equal(4, shardsAttribute.Split('\n').Length);
-        for (int i = 1; i <= 4; i++) Assert.Contains($"shard {i}/4: frames", shardsAttribute);
-
-        using var db = DuckDb.Open();
-        foreach (var table in new[] { "stats.parquet", "similarity.parquet", "events_changepoints.parquet", "events.parquet" })
-        {
-            string a = Path.Combine(dir.Path, "products", table), b = Path.Combine(sharded, table);
-            long rows = Convert.ToInt64(DuckDb.Query(db, $"SELECT count(*) FROM read_parquet('{a}')")[0][0]);
-            Assert.True(rows > 0, table);
-            var differing = DuckDb.Query(db, $"SELECT count(*) FROM ((SELECT * FROM read_parquet('{a}') EXCEPT ALL SELECT * FROM read_parquet('{b}')) UNION ALL (SELECT * FROM read_parquet('{b}') EXCEPT ALL SELECT * FROM read_parquet('{a}')))");
-            Assert.Equal(0L, Convert.ToInt64(differing[0][0]));
-        }
+        AssertSameProducts(dir.File("products"), sharded);
     }
 
     [Fact]
@@ -167,5 +138,40 @@ public class ShardTests
         Assert.Equal(2, unfinished.ExitCode);
         Assert.Contains("shards 2 of 3 have not finished stats", unfinished.Stderr);
         Assert.False(File.Exists(dir.File("products/stats.nc")));
+    }
+
+    /// <summary>The sharded products against the one-machine ones: series identical, the climatology to float32 rounding, the tables row for row.</summary>
+    internal static void AssertSameProducts(string oneMachine, string sharded)
+    {
+        var json = JsonDocument.Parse(ExternalTools.RunPython("compare_products.py", oneMachine, sharded,
+            "stats.nc", "similarity.nc", "climatology.nc", "anomalies.nc")).RootElement;
+        foreach (var file in new[] { "stats.nc", "similarity.nc" })
+            foreach (var v in json.GetProperty(file).GetProperty("variables").EnumerateObject())
+                Assert.True(v.Value.GetProperty("identical").GetBoolean(), $"{file}:{v.Name} differs from the one-machine run by {v.Value.GetProperty("max_abs").GetDouble():R}");
+        // the climatology is stored in float32: merged and one-pass moments agree to 1e-12 in float64, so at most one float32 step apart
+        var clim = json.GetProperty("climatology.nc").GetProperty("variables");
+        foreach (var name in new[] { "tb", "tb_std" })
+        {
+            var v = clim.GetProperty(name);
+            Assert.True(v.GetProperty("same_shape").GetBoolean());
+            Assert.True(v.GetProperty("max_abs").GetDouble() <= v.GetProperty("max_value").GetDouble() * Math.Pow(2, -23), $"climatology {name} differs by {v.GetProperty("max_abs").GetDouble():R}");
+        }
+        Assert.True(clim.GetProperty("tb_count").GetProperty("identical").GetBoolean());
+        // anomalies inherit that float32 step of the climatology mean (Tb near 300 K: 2^-15 K)
+        var anomaly = json.GetProperty("anomalies.nc").GetProperty("variables").GetProperty("anomaly");
+        Assert.True(anomaly.GetProperty("max_abs").GetDouble() <= 320 * Math.Pow(2, -23), $"anomalies differ by {anomaly.GetProperty("max_abs").GetDouble():R}");
+        var shardsAttribute = json.GetProperty("stats.nc").GetProperty("attributes").GetProperty("griddrift_shards").GetString()!;
+        Assert.Equal(4, shardsAttribute.Split('\n').Length);
+        for (int i = 1; i <= 4; i++) Assert.Contains($"shard {i}/4: frames", shardsAttribute);
+
+        using var db = DuckDb.Open();
+        foreach (var table in new[] { "stats.parquet", "similarity.parquet", "events_changepoints.parquet", "events.parquet" })
+        {
+            string a = Path.Combine(oneMachine, table), b = Path.Combine(sharded, table);
+            long rows = Convert.ToInt64(DuckDb.Query(db, $"SELECT count(*) FROM read_parquet('{a}')")[0][0]);
+            Assert.True(rows > 0, table);
+            var differing = DuckDb.Query(db, $"SELECT count(*) FROM ((SELECT * FROM read_parquet('{a}') EXCEPT ALL SELECT * FROM read_parquet('{b}')) UNION ALL (SELECT * FROM read_parquet('{b}') EXCEPT ALL SELECT * FROM read_parquet('{a}')))");
+            Assert.Equal(0L, Convert.ToInt64(differing[0][0]));
+        }
     }
 }

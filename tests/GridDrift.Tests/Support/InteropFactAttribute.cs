@@ -12,6 +12,7 @@ public enum Needs
     SharedData = 16,
     Fonts = 32,
     PythonStatsmodels = 64,
+    Slurm = 128,
 }
 
 /// <summary>
@@ -33,6 +34,7 @@ public sealed class InteropFactAttribute : FactAttribute
         if (needs.HasFlag(Needs.PythonNetcdf) && !ExternalTools.HasPythonNetcdf) missing.Add("python netCDF4 (apt-get install python3-netcdf4 python3-numpy)");
         if (needs.HasFlag(Needs.PythonScipy) && !ExternalTools.HasPythonScipy) missing.Add("scipy (apt-get install python3-scipy)");
         if (needs.HasFlag(Needs.PythonStatsmodels) && !ExternalTools.HasPythonStatsmodels) missing.Add("statsmodels (apt-get install python3-statsmodels)");
+        if (needs.HasFlag(Needs.Slurm) && !ExternalTools.HasSlurm) missing.Add("a running Slurm cluster (as root: bash .ci/slurm/up, after apt-get install slurmctld slurmd slurm-client munge)");
         if (needs.HasFlag(Needs.SharedData) && SharedData.Root is null) missing.Add("the ../shared folder beside the checkout");
         if (needs.HasFlag(Needs.Fonts) && !HasFont()) missing.Add("a TrueType font for plot labels (apt-get install fonts-dejavu-core)");
         return missing.Count == 0 ? null : "skipped: needs " + string.Join(", ", missing);
