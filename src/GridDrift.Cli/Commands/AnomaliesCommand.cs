@@ -21,12 +21,14 @@ public static class AnomaliesCommand
         var series = new Option<string?>("--series") { Description = "with --regions: series NetCDF of the region-mean anomalies (default: OUT_series.nc)" };
         var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 };
         var format = CommonOptions.Format();
+        var deflate = CommonOptions.Deflate();
+        var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("anomalies", "Anomalies of every frame from its climatology slot: absolute, relative or standardized, as fields and region series.\n\n" +
             "Example:\n  griddrift anomalies cf-samples/tcwv_synthetic_2031.nc --var tcwv --climatology clim.nc --out anom.nc --regions global bands:30 --table anom.parquet")
         {
-            files, variable, climatology, kind, output, regions, table, series, minValid, format, units, quiet,
+            files, variable, climatology, kind, output, regions, table, series, minValid, format, deflate, shuffle, units, quiet,
         };
         command.SetAction(parse =>
         {
@@ -38,7 +40,9 @@ public static class AnomaliesCommand
             var options = new AnomaliesOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(climatology)!, anomalyKind,
                 parse.GetValue(output)!, regionSpecs, parse.GetValue(table), parse.GetValue(series), parse.GetValue(minValid),
                 CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("anomalies", commandLine)) with { Units = parse.GetValue(units) };
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => AnomaliesStep.Run(options, progress));
+            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => options.Output is null ? AnomaliesStep.Run(options, progress)
+                : CommonOptions.WriteAs(options.Output, nc4, path => AnomaliesStep.Run(options with { Output = path, Series = options.Series ?? (options.Regions is { Count: > 0 } ? AnomaliesStep.DefaultSeriesPath(options.Output) : null) }, progress)));
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift anomalies: warning: {w}");
             if (!parse.GetValue(quiet))

@@ -17,12 +17,14 @@ public static class ClimatologyCommand
         var smooth = new Option<string?>("--smooth") { Description = "day-of-year smoothing: harmonics:N (first N annual harmonics) or window:DAYS (odd, wraps the year)" };
         var output = new Option<string>("--out") { Description = "climatology NetCDF to write", Required = true };
         var format = CommonOptions.Format();
+        var deflate = CommonOptions.Deflate();
+        var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("climatology", "Climatological mean, standard deviation and sample count per cell and slot (CF Conventions §7.4).\n\n" +
             "Example:\n  griddrift climatology cf-samples/tcwv_synthetic_2031.nc --var tcwv --by month --out clim.nc")
         {
-            files, variable, by, basePeriod, smooth, output, format, units, quiet,
+            files, variable, by, basePeriod, smooth, output, format, deflate, shuffle, units, quiet,
         };
         command.SetAction(parse =>
         {
@@ -30,7 +32,8 @@ public static class ClimatologyCommand
                 ?? throw new BadInputException(null, null, $"--by {parse.GetValue(by)}: choose month, day-of-year or hour-by-month");
             var options = new ClimatologyOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, kind, parse.GetValue(output)!,
                 parse.GetValue(basePeriod), parse.GetValue(smooth), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("climatology", commandLine)) with { Units = parse.GetValue(units) };
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => ClimatologyStep.Run(options, progress));
+            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.WriteAs(options.Output, nc4, path => ClimatologyStep.Run(options with { Output = path }, progress)));
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift climatology: warning: {w}");
             if (!parse.GetValue(quiet))

@@ -25,7 +25,41 @@ internal static class CommonOptions
         DefaultValueFactory = _ => GridDrift.Grids.Sphere.MeanEarthRadius,
     };
 
-    public static Option<string?> Format() => new("--format") { Description = "NetCDF output format: cdf2 (default) or cdf5" };
+    public static Option<string?> Format() => new("--format") { Description = "NetCDF output format: cdf2 (default), cdf5, or nc4 (compressed NetCDF-4 through netCDF-C's libnetcdf)" };
+
+    public static Option<int> Deflate() => new("--deflate") { Description = "with --format nc4: zlib level 1 (fast) to 9 (small), 0 for none", DefaultValueFactory = _ => 1 };
+
+    public static Option<bool> Shuffle() => new("--shuffle") { Description = "with --format nc4: the byte shuffle filter before deflate (often smaller for float fields)" };
+
+    /// <summary>--format nc4 with its --deflate and --shuffle, or null for the classic formats.</summary>
+    public static GridDrift.Formats.Nc4.Nc4Options? Nc4(string? format, int deflate, bool shuffle)
+    {
+        if (!string.Equals(format, "nc4", StringComparison.OrdinalIgnoreCase)) return null;
+        if (deflate is < 0 or > 9) throw new BadInputException(null, null, $"--deflate {deflate}: choose 1 (fast) to 9 (small), or 0 for none");
+        if (!GridDrift.Formats.Nc4.Nc4Options.Available(out var why)) throw new BadInputException(null, null, "--format nc4: " + why);
+        return new GridDrift.Formats.Nc4.Nc4Options(deflate, shuffle);
+    }
+
+    /// <summary>
+    /// Runs a step that writes <paramref name="output"/>; for nc4 the step writes a hidden classic
+    /// file beside it, which becomes the compressed NetCDF-4 product and is then removed.
+    /// </summary>
+    public static T WriteAs<T>(string output, GridDrift.Formats.Nc4.Nc4Options? nc4, Func<string, T> write)
+    {
+        if (nc4 is null) return write(output);
+        string full = Path.GetFullPath(output);
+        string classic = Path.Combine(Path.GetDirectoryName(full)!, "." + Path.GetFileName(full) + ".classic.part");
+        try
+        {
+            var result = write(classic);
+            GridDrift.Formats.Nc4.Nc4Converter.Convert(classic, full, nc4);
+            return result;
+        }
+        finally
+        {
+            if (File.Exists(classic)) File.Delete(classic);
+        }
+    }
 
     public static Option<string?> Units() => new("--units") { Description = "deliver the variable in these units (UDUNITS-style, e.g. degC, g/kg, hPa)" };
 
@@ -37,8 +71,8 @@ internal static class CommonOptions
         "cdf1" or "classic" => ClassicVariant.Cdf1,
         "cdf2" => ClassicVariant.Cdf2,
         "cdf5" => ClassicVariant.Cdf5,
-        "nc4" => throw new BadInputException(null, null, "--format nc4 (compressed netCDF-4 output) is not available yet; use cdf2 or cdf5"),
-        _ => throw new BadInputException(null, null, $"--format {text}: choose cdf2 or cdf5"),
+        "nc4" => null, // written classic, then converted: see WriteAs
+        _ => throw new BadInputException(null, null, $"--format {text}: choose cdf2, cdf5 or nc4"),
     };
 
     /// <summary>The command line as typed, for provenance.</summary>

@@ -17,19 +17,22 @@ public static class DeriveCommand
         var surface = new Option<string?>("--surface-pressure") { Description = "surface-pressure variable in the same files: the column ends there" };
         var output = new Option<string>("--out") { Description = "NetCDF to write", Required = true };
         var format = CommonOptions.Format();
+        var deflate = CommonOptions.Deflate();
+        var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("derive", "Derive a quantity from model output: total column water vapour from specific humidity on pressure levels, relative humidity, or specific humidity from the dew point.\n\n" +
             "Example:\n  griddrift derive column-water-vapour cf-samples/q_levels_noleap_2031.nc --out tcwv.nc")
         {
-            quantity, files, variable, temperature, pressure, surface, output, format, units, quiet,
+            quantity, files, variable, temperature, pressure, surface, output, format, deflate, shuffle, units, quiet,
         };
         command.SetAction(parse =>
         {
             var options = new DeriveOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(quantity)!, parse.GetValue(output)!, parse.GetValue(variable),
                 parse.GetValue(surface), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("derive", commandLine),
                 parse.GetValue(temperature), parse.GetValue(pressure), parse.GetValue(units));
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => DeriveStep.Run(options, progress));
+            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.WriteAs(options.Output, nc4, path => DeriveStep.Run(options with { Output = path }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift derive: {summary.Frames} frames of {summary.Variable} from {summary.Levels} levels written to {options.Output}");
             return ExitCodes.Success;

@@ -18,18 +18,21 @@ public static class RegridCommand
         var resample = new Option<string?>("--resample") { Description = "means of the remapped frames over PTnH (e.g. PT3H), daily or monthly periods, with time bounds" };
         var weights = new Option<string?>("--weights") { Description = "weights file: read when it exists (and matches the grids), else written after building" };
         var format = CommonOptions.Format();
+        var deflate = CommonOptions.Deflate();
+        var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("regrid", "Remap fields onto another latitude-longitude grid, conservatively (exact overlap areas) or bilinearly.\n\n" +
             "Example:\n  griddrift regrid cf-samples/tcwv_synthetic_2031.nc --var tcwv --to regular:10 --method conservative --out tcwv_10deg.nc")
         {
-            files, variable, to, method, output, calendar, resample, weights, format, units, quiet,
+            files, variable, to, method, output, calendar, resample, weights, format, deflate, shuffle, units, quiet,
         };
         command.SetAction(parse =>
         {
             var options = new RegridOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(to)!, parse.GetValue(method)!,
                 parse.GetValue(output)!, CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("regrid", commandLine), parse.GetValue(calendar), parse.GetValue(resample), parse.GetValue(weights)) with { Units = parse.GetValue(units) };
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => RegridStep.Run(options, progress));
+            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.WriteAs(options.Output, nc4, path => RegridStep.Run(options with { Output = path }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift regrid: {summary.Frames} frames onto {summary.Target.Rows} × {summary.Target.Columns} ({summary.Weights.Column.Length} weights{(summary.WeightsReused ? ", read from " + options.Weights : "")}), {summary.Written} written to {options.Output}" + (summary.Dropped > 0 ? $"; {summary.Dropped} frames dropped (dates the target calendar lacks)" : ""));
             return ExitCodes.Success;

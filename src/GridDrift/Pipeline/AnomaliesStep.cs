@@ -82,7 +82,7 @@ public static class AnomaliesStep
             var shapes = RegionSpecs.ParseInput(o.Regions);
             mask = RegionMaskBuilder.Build(grid, shapes);
             plan = SeparablePlan.TryBuild(grid, shapes);
-            seriesPath = o.Series ?? (o.Output is { } output ? Path.Combine(Path.GetDirectoryName(Path.GetFullPath(output))!, Path.GetFileNameWithoutExtension(output) + "_series.nc")
+            seriesPath = o.Series ?? (o.Output is { } output ? DefaultSeriesPath(output)
                 : throw new ArgumentException("anomalies without a field file need a series path"));
             var calendarAttribute0 = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
             string quantity = o.Kind == AnomalyKind.Absolute ? "anomaly" : o.Kind.Name() + "_anomaly";
@@ -122,6 +122,10 @@ public static class AnomaliesStep
             series?.Dispose();
         }
     }
+
+    /// <summary>Where the region series go without --series: OUT_series.nc beside the fields.</summary>
+    public static string DefaultSeriesPath(string output) =>
+        Path.Combine(Path.GetDirectoryName(Path.GetFullPath(output))!, Path.GetFileNameWithoutExtension(output) + "_series.nc");
 
     static int Stream(FrameSource source, FrameSlice slice, ClimatologyFile clim, AnomaliesOptions o, RegionMask? mask, SeparablePlan? plan,
         FieldNetCdfWriter? w, ClassicWriter.Definition? time, ClassicWriter.Definition? data, ISeriesSink? series, IProgress<(int, int)>? progress)
