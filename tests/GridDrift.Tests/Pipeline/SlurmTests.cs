@@ -67,6 +67,12 @@ public class SlurmTests
         foreach (int shard in new[] { 1, 3, 4 })
             Assert.Contains("stats: up to date, skipped", File.ReadAllText(dir.File($"failing/shards/slurm/logs/record-{shard}.log")));
         Assert.Contains("stats: done", File.ReadAllText(dir.File("failing/shards/slurm/logs/record-2.log")));
+        // the rerun shard replaced its partial products: the gathered products are those of a one-machine run of the same recipe
+        string oneMachine = dir.File("failing-one.toml");
+        File.WriteAllText(oneMachine, File.ReadAllText(failing).Replace("out = \"failing\"", "out = \"failing-one\""));
+        var single = CliRun.Run("run", oneMachine, "--quiet");
+        Assert.True(single.ExitCode == 0, single.Stderr);
+        ShardTests.AssertSameProducts(dir.File("failing-one"), dir.File("failing"));
     }
 
     /// <summary>griddrift submit --wait as its own process; with <paramref name="killShard"/>, that shard's process is killed (SIGKILL) once it has worked half a second.</summary>
