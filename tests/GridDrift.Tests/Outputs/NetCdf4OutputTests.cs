@@ -56,6 +56,24 @@ public class NetCdf4OutputTests
     }
 
     [Fact]
+    public void Without_the_netcdf_library_nc4_is_refused_naming_the_package()
+    {
+        using var dir = new TempFolder();
+        string input = SampleFiles.Record(dir.File("in.nc"), frames: 10, stepHours: 24);
+        var info = new System.Diagnostics.ProcessStartInfo("dotnet") { UseShellExecute = false, RedirectStandardError = true, RedirectStandardOutput = true };
+        foreach (var a in new[] { Path.Combine(AppContext.BaseDirectory, "griddrift.dll"), "climatology", input, "--var", "tcwv", "--by", "month", "--out", dir.File("c.nc"), "--format", "nc4" })
+            info.ArgumentList.Add(a);
+        info.Environment["GRIDDRIFT_LIBNETCDF"] = dir.File("no-such-libnetcdf.so");
+        using var p = System.Diagnostics.Process.Start(info)!;
+        string stderr = p.StandardError.ReadToEnd();
+        p.WaitForExit();
+        Assert.Equal(2, p.ExitCode);
+        Assert.Contains("apt-get install libnetcdf19", stderr);
+        Assert.Single(stderr.Split('\n', StringSplitOptions.RemoveEmptyEntries));
+        Assert.Empty(Directory.EnumerateFiles(dir.Path, "*c.nc*", SearchOption.AllDirectories));
+    }
+
+    [Fact]
     public void A_deflate_level_out_of_range_is_refused()
     {
         using var dir = new TempFolder();
