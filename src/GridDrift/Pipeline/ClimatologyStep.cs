@@ -162,7 +162,7 @@ public static class ClimatologyStep
     }
 
     /// <summary>Frames held at once: enough that a diurnal slot recurs a few times within a batch, never more than 256 MiB.</summary>
-    static int BatchSize(int frameLength, int workers) => Math.Clamp((int)(256L * 1024 * 1024 / (4L * frameLength)), 2 * workers, 384);
+    static int BatchSize(int frameLength, int workers) => Math.Clamp((int)(256L * 1024 * 1024 / (4L * frameLength)), 2 * workers, 768);
 
     /// <summary>
     /// Reads a batch of frames in parallel, groups them by slot (in time order within a slot), then
