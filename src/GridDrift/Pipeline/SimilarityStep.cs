@@ -170,6 +170,7 @@ public static class SimilarityStep
             Map = o.Metrics.Contains(SimilarityMetric.Ssim) ? new float[grid.CellCount] : [],
             MapStats = new double[mask.Count * 2],
             PairStats = new double[mask.Count * PairReducer.Stride],
+            Pairs = plan is null ? null : new SeparablePairReducer(plan),
             Values = new double[mask.Count * o.Metrics.Count],
             Valid = new double[mask.Count],
         }).ToArray();
@@ -182,6 +183,7 @@ public static class SimilarityStep
         public required float[] Map;
         public required double[] MapStats;
         public required double[] PairStats;
+        public required SeparablePairReducer? Pairs;
         public required double[] Values;
         public required double[] Valid;
         public long Outside;
@@ -273,7 +275,8 @@ public static class SimilarityStep
     {
         int nq = o.Metrics.Count;
         foreach (var v in b) if (v < range.Low || v > range.High) w.Outside++;
-        PairReducer.Reduce(mask, a, b, w.PairStats);
+        if (w.Pairs is { } separable) separable.Reduce(a, b, mask.RegionArea, w.PairStats);
+        else PairReducer.Reduce(mask, a, b, w.PairStats);
         if (o.Metrics.Contains(SimilarityMetric.Ssim))
         {
             w.Ssim.Map(a, b, w.Map);
