@@ -42,12 +42,7 @@ public static class RecipeRunner
         Directory.CreateDirectory(stateDir);
         using var runLock = RunLock.Take(stateDir, outDir);
         FrameSlice? slice = null;
-        if (shard is { } spec)
-        {
-            if (recipe.Has("anomalies") && recipe.Flag("anomalies", "fields", false))
-                throw new BadInputException(recipe.Path, "anomalies.fields", $"line {recipe.Sections["anomalies"].Keys["fields"].Line}: anomaly fields are written by one-machine runs only; drop 'fields' or run without --shard");
-            slice = ShardManifest.Begin(recipe, spec, inputs, variable, outDir);
-        }
+        if (shard is { } spec) slice = ShardManifest.Begin(recipe, spec, inputs, variable, outDir);
         var outcomes = new List<StepOutcome>();
 
         foreach (var step in Order.Where(recipe.Has))

@@ -1,4 +1,5 @@
 using System.Text.Json.Nodes;
+using GridDrift.Outputs.Fields;
 using GridDrift.Outputs.Series;
 
 namespace GridDrift.Pipeline;
@@ -80,6 +81,11 @@ public static class ShardGather
             else
             {
                 var joined = SeriesPieces.Join(pieces.Select(p => p.Outputs![0]).ToList(), outputs[0], table, variable, how, shardsAttribute);
+                if (outputs.FirstOrDefault(o => o.EndsWith("_fields.nc", StringComparison.Ordinal)) is { } fields)
+                {
+                    var provenance = new GridDrift.Outputs.Provenance(how, joined.InputFiles, joined.InputSha256, DateTime.UtcNow);
+                    FieldPieces.Join(pieces.Select(p => p.Outputs!.First(o => o.EndsWith("_fields.nc", StringComparison.Ordinal))).ToList(), fields, provenance.AsKeyValues(shardsAttribute));
+                }
                 summary = step switch
                 {
                     "similarity" => new JsonObject { ["pairs"] = joined.Steps },

@@ -116,6 +116,36 @@ public class ShardTests
         AssertSameProducts(dir.File("products"), sharded);
     }
 
+    [InteropFact(Needs.PythonNetcdf | Needs.Ncdump)]
+    public void Anomaly_fields_of_three_shards_join_into_those_of_a_one_machine_run()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 60, nlat: 4, nlon: 6, stepHours: 24, missing: (t, c) => (t + 2 * c) % 9 == 0);
+        string body = "variable = \"tcwv\"\nregions = [\"global\"]\n\n[climatology]\nby = \"month\"\n\n[anomalies]\nfields = true\n";
+        File.WriteAllText(dir.File("one.toml"), "[input]\nfiles = [\"in.nc\"]\nout = \"one\"\n" + body);
+        File.WriteAllText(dir.File("sharded.toml"), "[input]\nfiles = [\"in.nc\"]\nout = \"sharded\"\n" + body);
+        Assert.Equal(0, CliRun.Run("run", dir.File("one.toml"), "--quiet").ExitCode);
+        string[] folders = Enumerable.Range(1, 3).Select(i => new ShardSpec(i, 3).Folder(dir.File("sharded"))).ToArray();
+        for (int stage = 0; stage < 2; stage++)
+        {
+            for (int i = 1; i <= 3; i++) Assert.Equal(0, CliRun.Run("run", dir.File("sharded.toml"), "--shard", $"{i}/3", "--quiet").ExitCode);
+            var gather = CliRun.Run(["gather", .. folders, "--quiet"]);
+            Assert.True(gather.ExitCode == 0, gather.Stderr);
+        }
+        var header = ExternalTools.Run("ncdump", $"-h {dir.File("sharded/anomalies_fields.nc")}");
+        Assert.Equal(0, header.ExitCode);
+        Assert.Contains("time = UNLIMITED ; // (60 currently)", header.Stdout);
+        Assert.Contains(":griddrift_shards = \"shard 1/3: frames 0..19", header.Stdout);
+        var json = JsonDocument.Parse(ExternalTools.RunPython("compare_products.py", dir.File("one"), dir.File("sharded"), "anomalies_fields.nc")).RootElement;
+        var variables = json.GetProperty("anomalies_fields.nc").GetProperty("variables");
+        foreach (var name in new[] { "time", "lat", "lon" }) Assert.True(variables.GetProperty(name).GetProperty("identical").GetBoolean(), name);
+        // the values reach 1,430; the climatology's float32 step there is 2^-13, and each anomaly inherits it
+        var field = variables.GetProperty("tcwv");
+        Assert.True(field.GetProperty("same_shape").GetBoolean());
+        Assert.True(field.GetProperty("same_missing").GetBoolean(), "the anomaly fields are missing in other places");
+        Assert.True(field.GetProperty("max_abs").GetDouble() <= Math.Pow(2, -12), $"anomaly fields differ by {field.GetProperty("max_abs").GetDouble():R}");
+    }
+
     [Fact]
     public void Gather_refuses_a_missing_a_repeated_or_an_unfinished_shard()
     {
@@ -154,11 +184,13 @@ public class ShardTests
         {
             var v = clim.GetProperty(name);
             Assert.True(v.GetProperty("same_shape").GetBoolean());
+            Assert.True(v.GetProperty("same_missing").GetBoolean(), $"climatology {name} is missing in other places");
             Assert.True(v.GetProperty("max_abs").GetDouble() <= v.GetProperty("max_value").GetDouble() * Math.Pow(2, -23), $"climatology {name} differs by {v.GetProperty("max_abs").GetDouble():R}");
         }
         Assert.True(clim.GetProperty("tb_count").GetProperty("identical").GetBoolean());
         // anomalies inherit that float32 step of the climatology mean (Tb near 300 K: 2^-15 K)
         var anomaly = json.GetProperty("anomalies.nc").GetProperty("variables").GetProperty("anomaly");
+        Assert.True(anomaly.GetProperty("same_missing").GetBoolean(), "the anomaly series are missing in other places");
         Assert.True(anomaly.GetProperty("max_abs").GetDouble() <= 320 * Math.Pow(2, -23), $"anomalies differ by {anomaly.GetProperty("max_abs").GetDouble():R}");
         var shardsAttribute = json.GetProperty("stats.nc").GetProperty("attributes").GetProperty("griddrift_shards").GetString()!;
         Assert.Equal(4, shardsAttribute.Split('\n').Length);

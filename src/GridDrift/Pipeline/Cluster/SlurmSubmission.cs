@@ -28,8 +28,6 @@ public static class SlurmSubmission
     {
         if (o.Shards < 1) throw new BadInputException(o.Recipe, null, "--shards must be at least 1");
         var recipe = Recipe.Load(o.Recipe);
-        if (recipe.Has("anomalies") && recipe.Flag("anomalies", "fields", false))
-            throw new BadInputException(recipe.Path, "anomalies.fields", $"line {recipe.Sections["anomalies"].Keys["fields"].Line}: anomaly fields are written by one-machine runs only; drop 'fields' to submit sharded");
         if (RecipeRunner.Inputs(recipe).Count == 0) throw new BadInputException(recipe.Path, "input.files", "matches no file");
         string mainDir = RecipeRunner.OutFolder(recipe);
         string jobsDir = Path.Combine(mainDir, "shards", "slurm"), logs = Path.Combine(jobsDir, "logs");

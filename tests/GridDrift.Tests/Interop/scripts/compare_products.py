@@ -3,7 +3,7 @@
 usage: compare_products.py DIR_A DIR_B FILE...
 
 For each FILE and each numeric variable: whether the values are identical (NaN equal to NaN,
-same shape) and the largest absolute difference. Also the global attributes of DIR_B's files.
+same shape), whether they are missing in the same places, and the largest absolute difference. Also the global attributes of DIR_B's files.
 Prints JSON {file: {"variables": {name: {"identical": bool, "max_abs": float}}, "attributes": {...}}}.
 """
 import sys, json
@@ -23,6 +23,7 @@ for f in files:
             same_shape = x.shape == y.shape
             identical = same_shape and bool(np.array_equal(x, y, equal_nan=True))
             diff = float(np.nanmax(np.abs(x - y))) if same_shape and x.size and not np.all(np.isnan(x - y)) else 0.0
-            variables[name] = {"identical": identical, "same_shape": same_shape, "max_abs": diff, "max_value": float(np.nanmax(np.abs(x))) if x.size else 0.0}
+            same_missing = same_shape and bool(np.array_equal(np.isnan(x), np.isnan(y)))
+            variables[name] = {"identical": identical, "same_shape": same_shape, "same_missing": same_missing, "max_abs": diff, "max_value": float(np.nanmax(np.abs(x))) if x.size else 0.0}
         result[f] = {"variables": variables, "attributes": {k: str(b.getncattr(k)) for k in b.ncattrs()}}
 print(json.dumps(result))
