@@ -27,7 +27,12 @@ internal static class CommonOptions
 
     public static Option<string?> Format() => new("--format") { Description = "NetCDF output format: cdf2 (default), cdf5, or nc4 (compressed NetCDF-4 through netCDF-C's libnetcdf)" };
 
-    public static Option<int> Deflate() => new("--deflate") { Description = "with --format nc4: zlib level 1 (fast) to 9 (small), 0 for none", DefaultValueFactory = _ => 1 };
+    public static Option<int> Deflate()
+    {
+        var option = new Option<int>("--deflate") { Description = "with --format nc4: zlib level 1 (fast) to 9 (small), 0 for none", DefaultValueFactory = _ => 1 };
+        option.Validators.Add(r => { if (r.GetValueOrDefault<int>() is < 0 or > 9) r.AddError($"--deflate {r.GetValueOrDefault<int>()}: choose 1 (fast) to 9 (small), or 0 for none"); });
+        return option;
+    }
 
     public static Option<bool> Shuffle() => new("--shuffle") { Description = "with --format nc4: the byte shuffle filter before deflate (often smaller for float fields)" };
 

@@ -57,6 +57,7 @@ public static class RunCommands
     {
         var recipe = new Argument<string>("RECIPE") { Description = "the recipe to run sharded" };
         var shards = new Option<int>("--shards") { Description = "number of shards (contiguous time slices of the record)", Required = true };
+        shards.Validators.Add(r => { if (r.GetValueOrDefault<int>() < 1) r.AddError("--shards must be at least 1"); });
         var scheduler = new Option<string>("--scheduler") { Description = "the cluster's batch scheduler", Required = true };
         scheduler.AcceptOnlyFromAmong("slurm");
         var dryRun = new Option<bool>("--dry-run") { Description = "write the batch scripts and print the sbatch commands, submit nothing" };
