@@ -56,6 +56,7 @@ public static unsafe class Nc4Converter
         CopyAttributes(input, output, NetCdfLibrary.Global, ngatts, path);
         var vars = new (int Type, int[] Dims, long Slab)[nvars];
         var dimids = stackalloc int[NetCdfLibrary.MaxName];
+        var chunks = stackalloc nuint[NetCdfLibrary.MaxName]; // NC_MAX_VAR_DIMS is 1024; classic files stay far below this
         for (int v = 0; v < nvars; v++)
         {
             NetCdfLibrary.Check(NetCdfLibrary.nc_inq_var(input, v, name, out int type, out int rank, dimids, out int natts), path, "variable");
@@ -68,7 +69,6 @@ public static unsafe class Nc4Converter
             for (int k = record ? 1 : 0; k < rank; k++) slab *= (long)lengths[dims[k]];
             if (rank >= 2)
             {
-                var chunks = stackalloc nuint[rank];
                 chunks[0] = 1; // one frame (or one row of a fixed variable) per chunk
                 for (int k = 1; k < rank; k++) chunks[k] = lengths[dims[k]];
                 NetCdfLibrary.Check(NetCdfLibrary.nc_def_var_chunking(output, id, NetCdfLibrary.Chunked, chunks), path, "chunking of " + varName);
@@ -83,14 +83,15 @@ public static unsafe class Nc4Converter
         long records = unlimited >= 0 ? (long)lengths[unlimited] : 0;
         long largest = vars.Select(x => x.Slab).DefaultIfEmpty(0).Max(); // a record's slab, or a whole fixed variable
         void* buffer = NativeMemory.Alloc((nuint)Math.Max(1, largest));
+        int maxRank = vars.Select(x => x.Dims.Length).DefaultIfEmpty(1).Max();
+        var start = stackalloc nuint[Math.Max(1, maxRank)];
+        var count = stackalloc nuint[Math.Max(1, maxRank)];
         try
         {
             for (int v = 0; v < nvars; v++)
             {
                 var (_, dims, _) = vars[v];
                 int rank = dims.Length;
-                var start = stackalloc nuint[Math.Max(1, rank)];
-                var count = stackalloc nuint[Math.Max(1, rank)];
                 for (int k = 0; k < rank; k++) { start[k] = 0; count[k] = lengths[dims[k]]; }
                 bool record = rank > 0 && dims[0] == unlimited;
                 if (!record)
