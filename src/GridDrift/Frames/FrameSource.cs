@@ -174,6 +174,14 @@ public sealed class FrameSource : IDisposable
         return (_parts[part].Reader.Path, index - _partStart[part]);
     }
 
+    /// <summary>The files holding frames [first, end), in time order: what one shard of a sharded run reads.</summary>
+    public IReadOnlyList<string> FilesOf(int first, int end)
+    {
+        if (end <= first) return [];
+        int a = PartOf(Math.Max(0, first)), b = PartOf(Math.Min(FrameCount, end) - 1);
+        return Enumerable.Range(a, b - a + 1).Select(p => _parts[p].Reader.Path).ToList();
+    }
+
     int PartOf(int index)
     {
         if ((uint)index >= (uint)FrameCount) throw new ArgumentOutOfRangeException(nameof(index));

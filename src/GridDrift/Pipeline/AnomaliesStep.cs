@@ -55,7 +55,7 @@ public static class AnomaliesStep
         clim.ConvertTo(units); // a climatology made in other units (K against degC) still fits
         string anomalyUnits = o.Kind switch { AnomalyKind.Absolute => units, AnomalyKind.Relative => "%", _ => "1" };
         string longName = $"{o.Kind.Name()} anomaly of {template.DataAttribute("long_name") ?? o.Variable} from its {clim.Scheme.Kind.Name()} climatology";
-        var provenance = Provenance.For(o.Command, source.Files.Append(o.Climatology).ToArray());
+        var provenance = Provenance.For(o.Command, (o.Slice is { } part ? source.FilesOf(part.First, part.End) : source.Files).Append(o.Climatology).ToArray());
         var extra = new Dictionary<string, string>
         {
             ["title"] = $"{o.Kind.Name()} anomalies of {o.Variable}",

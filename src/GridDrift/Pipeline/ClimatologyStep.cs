@@ -64,7 +64,9 @@ public static class ClimatologyStep
             warnings.Add($"the base period {basePeriod.ToIsoString()} covers {basePeriod.Years:0.##} years, fewer than the {NormalYears:0} years of a " +
                 "climatological standard normal (WMO-No. 1203, Guidelines on the Calculation of Climate Normals, 2017): treat it as a provisional baseline");
         // the input checksums take a core-second per gigabyte: hash while the frames stream
-        var provenance = Task.Run(() => Provenance.For(o.Command, source.Files));
+        // a shard's partial state needs only its own files' checksums; a gather takes them from the shards' states
+        var remembered = new Dictionary<string, string>();
+        var provenance = o.PartialOut is not null || o.PartialIn is not null ? null : Task.Run(() => Provenance.For(o.Command, source.Files));
         var scheme = SlotScheme.For(o.Kind, calendar, usedTimes);
         using var state = new MomentState(scheme.SlotCount, source.FrameLength);
         if (o.PartialIn is { } parts)
@@ -73,6 +75,9 @@ public static class ClimatologyStep
             foreach (var part in parts)
             {
                 var attributes = PartialClimatologyFile.MergeInto(part, state, o.Kind.Name());
+                var files = attributes.GetValueOrDefault("input_files", "").Split('\n', StringSplitOptions.RemoveEmptyEntries);
+                var sums = attributes.GetValueOrDefault("input_sha256", "").Split('\n', StringSplitOptions.RemoveEmptyEntries);
+                for (int i = 0; i < Math.Min(files.Length, sums.Length); i++) remembered[files[i]] = sums[i];
                 if (attributes.GetValueOrDefault("climatology_base_period") != basePeriod.ToIsoString())
                     throw new BadInputException(part, null, $"was made for the base period {attributes.GetValueOrDefault("climatology_base_period")}, not {basePeriod.ToIsoString()}");
                 frames += double.Parse(attributes.GetValueOrDefault("climatology_frames", "0"), CultureInfo.InvariantCulture);
@@ -93,6 +98,8 @@ public static class ClimatologyStep
                     ["climatology_frames"] = own.Length.ToString(CultureInfo.InvariantCulture),
                     ["frames_of_record"] = o.Slice is { } s ? $"{s.First}..{s.End - 1} of {source.FrameCount}" : $"all {source.FrameCount}",
                     ["history"] = $"{DateTime.UtcNow:yyyy-MM-ddTHH:mm:ssZ} {o.Command}",
+                    ["input_files"] = string.Join("\n", own.Length == 0 ? [] : source.FilesOf(own[0], own[^1] + 1)),
+                    ["input_sha256"] = string.Join("\n", own.Length == 0 ? [] : source.FilesOf(own[0], own[^1] + 1).Select(ChecksumCache.Sha256)),
                 });
                 return new ClimatologySummary(own.Length, scheme.SlotCount, 0, basePeriod, warnings);
             }
@@ -118,7 +125,9 @@ public static class ClimatologyStep
                 "accumulated in float64 by Welford's update (Welford 1962), mergeable by Chan, Golub & LeVeque (1983)",
         };
         foreach (var (k, v) in o.Attributes ?? new Dictionary<string, string>()) extra[k] = v;
-        var globals = provenance.GetAwaiter().GetResult().AsKeyValues(extra);
+        var made = provenance?.GetAwaiter().GetResult()
+            ?? new Provenance(o.Command, source.Files, source.Files.Select(f => remembered.TryGetValue(f, out var sum) ? sum : ChecksumCache.Sha256(f)).ToList(), DateTime.UtcNow);
+        var globals = made.AsKeyValues(extra);
         ClimatologyNetCdfWriter.Write(o.Output, template, o.Variable, scheme, fields, slots, source.TimeUnits, calendarAttribute, globals, o.Format);
         return new ClimatologySummary(used.Length, scheme.SlotCount, empty, basePeriod, warnings);
     }

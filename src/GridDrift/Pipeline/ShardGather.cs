@@ -38,8 +38,9 @@ public static class ShardGather
         string stateDir = Path.Combine(mainDir, ".griddrift-run");
         Directory.CreateDirectory(stateDir);
         using var runLock = RunLock.Take(stateDir, mainDir);
-        var inputs = RecipeRunner.Inputs(recipe);
         string variable = recipe.Text("input", "variable");
+        IReadOnlyList<string> inputs;
+        using (var record = GridDrift.Frames.FrameSource.Open(RecipeRunner.Inputs(recipe), variable)) inputs = record.Files; // in time order, as a one-machine run lists them
         var shardsAttribute = new Dictionary<string, string>
         {
             ["griddrift_shards"] = string.Join("\n", manifests.Select(m => m.Describe())),
@@ -80,7 +81,9 @@ public static class ShardGather
             }
             else
             {
-                var joined = SeriesPieces.Join(pieces.Select(p => p.Outputs![0]).ToList(), outputs[0], table, variable, how, shardsAttribute);
+                // the one-machine product's inputs: the record, and for anomalies the climatology after it
+                var productInputs = step == "anomalies" ? inputs.Append(RecipeRunner.Products(recipe, "climatology", mainDir)[0]).ToList() : inputs;
+                var joined = SeriesPieces.Join(pieces.Select(p => p.Outputs![0]).ToList(), outputs[0], table, variable, how, productInputs, shardsAttribute);
                 if (outputs.FirstOrDefault(o => o.EndsWith("_fields.nc", StringComparison.Ordinal)) is { } fields)
                 {
                     var provenance = new GridDrift.Outputs.Provenance(how, joined.InputFiles, joined.InputSha256, DateTime.UtcNow);

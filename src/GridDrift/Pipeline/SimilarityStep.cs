@@ -94,9 +94,11 @@ public static class SimilarityStep
 
         string units = source.Units;
         var quantities = o.Metrics.Select(m => Quantity(m, o.Variable, units)).ToList();
+        // a shard reads its slice and the lag frames before it: its provenance names those files only
+        var read = o.Slice is { } owned ? source.FilesOf(owned.First - (reference is null && observed is null ? o.Lag : 0), owned.End) : source.Files;
         var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea, quantities, source.TimeUnits,
             source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard",
-            Provenance.For(o.Command, observed is not null ? [.. observed.Files, .. source.Files] : o.Against is null ? source.Files : [.. source.Files, o.Against]),
+            Provenance.For(o.Command, observed is not null ? [.. observed.Files, .. read] : o.Against is null ? read : [.. read, o.Against]),
             new Dictionary<string, string>
             {
                 ["title"] = observed is not null ? $"Comparison of {o.Variable}: candidate {Path.GetFileName(source.Files[0])} against reference {Path.GetFileName(observed.Files[0])}"

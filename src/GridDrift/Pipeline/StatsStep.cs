@@ -52,7 +52,7 @@ public static class StatsStep
         var units = source.Units;
         var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea, statistics.Select(s => Quantity(s, o.Variable, units)).ToList(),
             source.TimeUnits, source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard",
-            Provenance.For(o.Command, source.Files),
+            Provenance.For(o.Command, o.Slice is { } part ? source.FilesOf(part.First, part.End) : source.Files),
             new Dictionary<string, string>
             {
                 ["title"] = $"Area-weighted statistics of {o.Variable} per region",

@@ -1,6 +1,7 @@
 using System.Text.Json;
 using CsCheck;
 using GridDrift.Climatology;
+using GridDrift.Formats;
 using GridDrift.Frames;
 using GridDrift.Outputs.Fields;
 using GridDrift.Pipeline;
@@ -114,6 +115,12 @@ public class ShardTests
         foreach (var step in new[] { "stats", "similarity", "climatology", "anomalies" }) Assert.Contains($"{step}: up to date, skipped", finish.Stderr);
 
         AssertSameProducts(dir.File("products"), sharded);
+        // each shard hashed only the files of its slice: the record is four yearly files, a shard about a year of frames
+        foreach (var folder in Folders())
+        {
+            using var piece = DatasetFiles.Open(Path.Combine(folder, "stats.nc"));
+            Assert.InRange(piece.Attributes.Text("input_files")!.Split('\n').Length, 1, 2);
+        }
     }
 
     [InteropFact(Needs.PythonNetcdf | Needs.Ncdump)]
@@ -192,6 +199,18 @@ public class ShardTests
         var anomaly = json.GetProperty("anomalies.nc").GetProperty("variables").GetProperty("anomaly");
         Assert.True(anomaly.GetProperty("same_missing").GetBoolean(), "the anomaly series are missing in other places");
         Assert.True(anomaly.GetProperty("max_abs").GetDouble() <= 320 * Math.Pow(2, -23), $"anomalies differ by {anomaly.GetProperty("max_abs").GetDouble():R}");
+        // the gathered products name the same inputs with the same checksums, though each shard hashed only the files it read
+        // (the anomalies also name their own folder's climatology, last)
+        foreach (var file in new[] { "stats.nc", "similarity.nc", "climatology.nc", "anomalies.nc" })
+            foreach (var key in new[] { "input_files", "input_sha256" })
+            {
+                string[] Lines(string which) => json.GetProperty(file).GetProperty(which).GetProperty(key).GetString()!.Split('\n');
+                var (one, gathered) = (Lines("attributes_a"), Lines("attributes"));
+                int record = file == "anomalies.nc" ? one.Length - 1 : one.Length;
+                Assert.Equal(one.Length, gathered.Length);
+                Assert.Equal(one[..record], gathered[..record]);
+                if (file == "anomalies.nc" && key == "input_files") Assert.Equal(Path.Combine(sharded, "climatology.nc"), gathered[^1]);
+            }
         var shardsAttribute = json.GetProperty("stats.nc").GetProperty("attributes").GetProperty("griddrift_shards").GetString()!;
         Assert.Equal(4, shardsAttribute.Split('\n').Length);
         for (int i = 1; i <= 4; i++) Assert.Contains($"shard {i}/4: frames", shardsAttribute);

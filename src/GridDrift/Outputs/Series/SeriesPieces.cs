@@ -17,8 +17,9 @@ public static class SeriesPieces
 
     public sealed record Joined(int Steps, IReadOnlyList<string> InputFiles, IReadOnlyList<string> InputSha256);
 
+    /// <param name="inputs">the inputs of the whole product, in order: each piece names the checksums of the files it read</param>
     public static Joined Join(IReadOnlyList<string> pieces, string netCdf, string? table, string sourceVariable, string command,
-        IReadOnlyDictionary<string, string> extraAttributes, ClassicVariant? format = null)
+        IReadOnlyList<string> inputs, IReadOnlyDictionary<string, string> extraAttributes, ClassicVariant? format = null)
     {
         if (pieces.Count == 0) throw new BadInputException(null, null, "no series pieces to join");
         using var first = DatasetFiles.Open(pieces[0]);
@@ -26,15 +27,18 @@ public static class SeriesPieces
         var attributes = first.Attributes.Where(a => a.Type == NcType.Char && !ProvenanceKeys.Contains(a.Name))
             .ToDictionary(a => a.Name, a => a.AsText() ?? "", StringComparer.Ordinal);
         var skipped = new List<string>();
+        var known = new Dictionary<string, string>();
         foreach (var piece in pieces)
         {
             using var r = DatasetFiles.Open(piece);
             if (r.Attributes.Text("skipped_pairs") is { } s && s != "none") skipped.Add(s);
+            var files = (r.Attributes.Text("input_files") ?? "").Split('\n', StringSplitOptions.RemoveEmptyEntries);
+            var checksums = (r.Attributes.Text("input_sha256") ?? "").Split('\n', StringSplitOptions.RemoveEmptyEntries);
+            for (int i = 0; i < Math.Min(files.Length, checksums.Length); i++) known[files[i]] = checksums[i];
         }
         if (attributes.ContainsKey("skipped_pairs")) attributes["skipped_pairs"] = skipped.Count == 0 ? "none" : string.Join("; ", skipped);
         foreach (var (k, v) in extraAttributes) attributes[k] = v;
-        var inputs = (first.Attributes.Text("input_files") ?? "").Split('\n', StringSplitOptions.RemoveEmptyEntries);
-        var sums = (first.Attributes.Text("input_sha256") ?? "").Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        var sums = inputs.Select(f => known.TryGetValue(f, out var sum) ? sum : ChecksumCache.Sha256(f)).ToList();
         var provenance = new Provenance(command, inputs, sums, DateTime.UtcNow);
         var layout = new SeriesLayout(sourceVariable, shape.Regions, shape.Areas, shape.Quantities, shape.TimeUnits, shape.Calendar, provenance, attributes, shape.HasBounds);
 

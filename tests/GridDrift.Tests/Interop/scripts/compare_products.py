@@ -3,7 +3,7 @@
 usage: compare_products.py DIR_A DIR_B FILE...
 
 For each FILE and each numeric variable: whether the values are identical (NaN equal to NaN,
-same shape), whether they are missing in the same places, and the largest absolute difference. Also the global attributes of DIR_B's files.
+same shape), whether they are missing in the same places, and the largest absolute difference. Also the global attributes of the files of both folders.
 Prints JSON {file: {"variables": {name: {"identical": bool, "max_abs": float}}, "attributes": {...}}}.
 """
 import sys, json
@@ -25,5 +25,6 @@ for f in files:
             diff = float(np.nanmax(np.abs(x - y))) if same_shape and x.size and not np.all(np.isnan(x - y)) else 0.0
             same_missing = same_shape and bool(np.array_equal(np.isnan(x), np.isnan(y)))
             variables[name] = {"identical": identical, "same_shape": same_shape, "same_missing": same_missing, "max_abs": diff, "max_value": float(np.nanmax(np.abs(x))) if x.size else 0.0}
-        result[f] = {"variables": variables, "attributes": {k: str(b.getncattr(k)) for k in b.ncattrs()}}
+        result[f] = {"variables": variables, "attributes": {k: str(b.getncattr(k)) for k in b.ncattrs()},
+                     "attributes_a": {k: str(a.getncattr(k)) for k in a.ncattrs()}}
 print(json.dumps(result))
