@@ -29,7 +29,7 @@ public static class RecipeRunner
     public static IReadOnlyList<StepOutcome> Run(string recipePath, Action<string>? log = null, string command = "griddrift run", ShardSpec? shard = null)
     {
         var recipe = Recipe.Load(recipePath);
-        string Resolve(string p) => Path.IsPathRooted(p) ? p : Path.Combine(recipe.Folder, p);
+        string Resolve(string p) => InFolder(recipe, p);
         var inputs = Inputs(recipe);
         string variable = recipe.Text("input", "variable");
         var regions = recipe.List("input", "regions", ["global"]);
@@ -90,24 +90,19 @@ public static class RecipeRunner
         return outcomes;
     }
 
-    public static IReadOnlyList<string> Inputs(Recipe recipe)
-    {
-        string Resolve(string p) => Path.IsPathRooted(p) ? p : Path.Combine(recipe.Folder, p);
-        return InputPaths.Expand(recipe.List("input", "files").Select(Resolve).ToArray());
-    }
+    /// <summary>A path of the recipe: as it is when absolute, else relative to the recipe's folder.</summary>
+    static string InFolder(Recipe recipe, string path) => Path.IsPathRooted(path) ? path : Path.Combine(recipe.Folder, path);
 
-    public static string OutFolder(Recipe recipe)
-    {
-        string o = recipe.Text("input", "out", "products");
-        return Path.GetFullPath(Path.IsPathRooted(o) ? o : Path.Combine(recipe.Folder, o));
-    }
+    public static IReadOnlyList<string> Inputs(Recipe recipe) =>
+        InputPaths.Expand(recipe.List("input", "files").Select(p => InFolder(recipe, p)).ToArray());
+
+    public static string OutFolder(Recipe recipe) => Path.GetFullPath(InFolder(recipe, recipe.Text("input", "out", "products")));
 
     /// <summary>The products of a one-machine run of <paramref name="step"/> in <paramref name="outDir"/>.</summary>
     public static string[] Products(Recipe recipe, string step, string outDir)
     {
         string Product(string name) => Path.IsPathRooted(name) ? name : Path.Combine(outDir, name);
-        string Resolve(string p) => Path.IsPathRooted(p) ? p : Path.Combine(recipe.Folder, p);
-        return Plan(recipe, step, [], Product, Resolve, null).Outputs;
+        return Plan(recipe, step, [], Product, p => InFolder(recipe, p), null).Outputs;
     }
 
     static bool GatheredClimatologyHolds(Recipe recipe, string mainDir, Func<string, string> product)
@@ -184,9 +179,7 @@ public static class RecipeRunner
     internal static void WriteCheckpoint(string path, string fingerprint, string[] outputs, JsonObject summary)
     {
         var json = new JsonObject { ["fingerprint"] = fingerprint, ["outputs"] = new JsonArray(outputs.Select(o => (JsonNode)o).ToArray()), ["summary"] = summary.DeepClone() };
-        string temp = path + ".part";
-        File.WriteAllText(temp, json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
-        File.Move(temp, path, overwrite: true);
+        GridDrift.Outputs.AtomicFile.WriteAllText(path, json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
     }
 
     static JsonObject RunStats(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string[] outputs, string how, FrameSlice? slice)

@@ -45,9 +45,7 @@ public sealed record ShardManifest(string Recipe, ShardSpec Shard, FrameSlice Sl
             ["last_time"] = LastTime,
             ["host"] = Host,
         };
-        string path = Path.Combine(Folder, FileName), temp = path + ".part";
-        File.WriteAllText(temp, json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
-        File.Move(temp, path, overwrite: true);
+        GridDrift.Outputs.AtomicFile.WriteAllText(Path.Combine(Folder, FileName), json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
     }
 
     public static ShardManifest Load(string folder)

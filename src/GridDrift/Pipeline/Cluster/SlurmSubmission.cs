@@ -69,18 +69,15 @@ public static class SlurmSubmission
         sb.Append("# Written by griddrift submit; GridDrift is an analysis tool, not a warning or forecasting service.\n");
         sb.Append("set -euo pipefail\n");
         sb.Append(s.Body).Append('\n');
-        string path = Path.Combine(jobsDir, $"{k}-{s.Name}.sbatch"), temp = path + ".part";
-        File.WriteAllText(temp, sb.ToString());
-        File.Move(temp, path, overwrite: true);
+        string path = Path.Combine(jobsDir, $"{k}-{s.Name}.sbatch");
+        GridDrift.Outputs.AtomicFile.WriteAllText(path, sb.ToString());
         return path;
     }
 
     static void SaveJobs(string jobsDir, List<(BatchStage Stage, string Script, string? JobId)> jobs)
     {
         var json = new JsonArray(jobs.Select(j => (JsonNode)new JsonObject { ["stage"] = j.Stage.Name, ["job"] = j.JobId, ["script"] = j.Script }).ToArray());
-        string path = Path.Combine(jobsDir, "jobs.json"), temp = path + ".part";
-        File.WriteAllText(temp, json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
-        File.Move(temp, path, overwrite: true);
+        GridDrift.Outputs.AtomicFile.WriteAllText(Path.Combine(jobsDir, "jobs.json"), json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
     }
 
     /// <summary>Polls every job until each task has ended (or Slurm has forgotten it), then reports.</summary>
