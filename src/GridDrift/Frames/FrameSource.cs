@@ -215,6 +215,30 @@ public sealed class FrameSource : IDisposable
         }
     }
 
+    /// <summary>
+    /// The record's frames mapped rather than read, where every file stores them contiguously as
+    /// float32 whose decoding is at most one fill value, and no unit conversion applies (the
+    /// NetCDF classic formats, the common case of a long record); null otherwise, and the caller
+    /// reads frames with <see cref="ReadFrame"/>. The mapped values equal ReadFrame's.
+    /// </summary>
+    public MappedFrames? TryMap()
+    {
+        if (_convert is not null) return null;
+        var pieces = new MappedFrames.Piece[_parts.Length];
+        float? shared = null;
+        for (int p = 0; p < _parts.Length; p++)
+        {
+            var part = _parts[p];
+            if (part.Variable.Type != NcType.Float || !part.Codec.TrySingleFill(out float fill)) return null;
+            if (shared is { } f && BitConverter.SingleToInt32Bits(f) != BitConverter.SingleToInt32Bits(fill)) return null;
+            shared = fill;
+            if (part.Reader is not IStoredFrameLayout layout || layout.LocateFrames(part.Variable, part.TimeDimension) is not { BigEndian: true } stored
+                || stored.Bytes != 4L * FrameLength || stored.FrameCount < _partStart[p + 1] - _partStart[p]) return null;
+            pieces[p] = new MappedFrames.Piece(part.Reader.Path, stored, _partStart[p]);
+        }
+        return new MappedFrames(pieces, shared ?? float.NaN, VariableName);
+    }
+
     /// <summary>Reads and decodes frame <paramref name="index"/> (physical units, NaN where missing).</summary>
     public void ReadFrame(int index, Span<float> destination)
     {

@@ -131,6 +131,20 @@ public sealed class ValueCodec
         }
     }
 
+    /// <summary>
+    /// True where decoding a float32 stored value is only "this one value means missing" (or
+    /// nothing at all: <paramref name="fill"/> is then NaN): no packing, no valid range, at most
+    /// one missing value. A frame loop may then decode while it reads.
+    /// </summary>
+    public bool TrySingleFill(out float fill)
+    {
+        fill = float.NaN;
+        bool hasRange = !double.IsNegativeInfinity(_validMin) || !double.IsPositiveInfinity(_validMax);
+        if (StorageType != NcType.Float || IsPacked || hasRange || _missing.Length > 1) return false;
+        if (_missing.Length == 1) fill = (float)_missing[0];
+        return true;
+    }
+
     static void ReplaceVectorised(Span<float> values, float fill)
     {
         var vfill = new System.Numerics.Vector<float>(fill);

@@ -8,7 +8,7 @@ namespace GridDrift.Formats.Classic;
 /// specification). Big-endian on disk; record variables interleaved one record at a time;
 /// numrecs may be STREAMING (all ones), in which case it follows from the file size.
 /// </summary>
-public sealed class ClassicReader : IDatasetReader
+public sealed class ClassicReader : IDatasetReader, IStoredFrameLayout
 {
     readonly SafeFileHandle _handle;
     readonly Dictionary<NcVariable, VariableLayout> _layouts = new(ReferenceEqualityComparer.Instance);
@@ -87,6 +87,21 @@ public sealed class ClassicReader : IDatasetReader
                 fileOffset += got;
             }
         }
+    }
+
+    /// <summary>
+    /// A frame along the first dimension is contiguous: a record variable's frame is its slab of
+    /// one record, a fixed-size variable's frames follow one another. Only whole frames that the
+    /// file's length covers are counted, so a mapping never reads past its end.
+    /// </summary>
+    public StoredFrames? LocateFrames(NcVariable variable, int timeDimension)
+    {
+        if (timeDimension != 0 || !_layouts.TryGetValue(variable, out var layout)) return null;
+        long frameBytes = NcTypes.SizeOf(variable.Type) * layout.InnerShape.Skip(layout.IsRecord ? 0 : 1).Aggregate(1L, (n, d) => n * d);
+        long stride = layout.IsRecord ? RecordSize : frameBytes;
+        long frames = layout.IsRecord ? RecordCount : variable.Dimensions[0].Length;
+        if (frames > 0 && layout.Begin + (frames - 1) * stride + frameBytes > RandomAccess.GetLength(_handle)) return null;
+        return new StoredFrames(layout.Begin, stride, frameBytes, BigEndian: true, frames);
     }
 
     public string[] ReadStrings(NcVariable variable) =>
