@@ -67,7 +67,9 @@ public sealed class MomentState : IClimatologySlots, IDisposable
     }
 
     /// <summary>
-    /// Adds several frames (frame f at f × Cells in <paramref name="frames"/>) to one slot for cells [start, start + length). The frames' own count, mean
+    /// Adds several frames to one slot for cells [start, start + length): member m's values start
+    /// at address <paramref name="frames"/>[m] (cell 0), stored as <typeparamref name="TValues"/>
+    /// decodes them (a decoded buffer, or a mapped file's pages). The frames' own count, mean
     /// and M2 come from one pass of sums of d and d² with d = x − K, shifted by K = the state's
     /// running mean (or the first frame's value where the state is empty), so the sums stay small
     /// and keep their digits (the shifted-data algorithm; Chan, Golub &amp; LeVeque 1983, §3); they
@@ -76,97 +78,107 @@ public sealed class MomentState : IClimatologySlots, IDisposable
     /// climatology's state is far larger than the caches, and its slots recur only daily.
     /// </summary>
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
-    public void AddFrames(int slot, int start, int length, ReadOnlySpan<float> frames, ReadOnlySpan<int> members)
+    public unsafe void AddFrames<TValues>(int slot, int start, int length, ReadOnlySpan<nint> frames, TValues values) where TValues : struct, IStoredFloats
     {
-        if (members.Length == 1)
-        {
-            Add(slot, start, frames.Slice(members[0] * Cells + start, length));
-            return;
-        }
         const int BlockCells = 1024; // the four sums of a block stay in the first-level cache
-        Span<double> bn = stackalloc double[BlockCells], s1 = stackalloc double[BlockCells], s2 = stackalloc double[BlockCells], shift = stackalloc double[BlockCells];
+        double* bn = stackalloc double[BlockCells], s1 = stackalloc double[BlockCells], s2 = stackalloc double[BlockCells], shift = stackalloc double[BlockCells];
         for (int block = 0; block < length; block += BlockCells)
         {
             int n = Math.Min(BlockCells, length - block), from = start + block;
             int at = slot * Cells + from;
-            var cn = bn[..n]; var c1 = s1[..n]; var c2 = s2[..n]; var k = shift[..n];
-            cn.Clear(); c1.Clear(); c2.Clear();
-            var first = frames.Slice(members[0] * Cells, Cells);
+            new Span<double>(bn, n).Clear(); new Span<double>(s1, n).Clear(); new Span<double>(s2, n).Clear();
+            byte* first = (byte*)frames[0] + 4L * from;
+            var stateCount = Count.Slice(at, n); var stateMean = Mean.Slice(at, n);
             for (int i = 0; i < n; i++)
             {
-                double x = first[from + i];
-                k[i] = Count[at + i] > 0 ? Mean[at + i] : double.IsNaN(x) ? 0 : x;
+                double x = values.Load(first + 4 * i);
+                shift[i] = stateCount[i] > 0 ? stateMean[i] : double.IsNaN(x) ? 0 : x;
             }
             int m = 0;
-            for (; m + 4 <= members.Length; m += 4)
-                SumShifted4(frames.Slice(members[m] * Cells + from, n), frames.Slice(members[m + 1] * Cells + from, n),
-                    frames.Slice(members[m + 2] * Cells + from, n), frames.Slice(members[m + 3] * Cells + from, n), k, cn, c1, c2);
-            for (; m < members.Length; m++) SumShifted(frames.Slice(members[m] * Cells + from, n), k, cn, c1, c2);
-            BatchMoments(cn, k, c1, c2);
+            for (; m + 4 <= frames.Length; m += 4)
+                SumShifted4((byte*)frames[m] + 4L * from, (byte*)frames[m + 1] + 4L * from, (byte*)frames[m + 2] + 4L * from, (byte*)frames[m + 3] + 4L * from,
+                    n, values, shift, bn, s1, s2);
+            for (; m < frames.Length; m++) SumShifted((byte*)frames[m] + 4L * from, n, values, shift, bn, s1, s2);
+            var cn = new Span<double>(bn, n); var c1 = new Span<double>(s1, n); var c2 = new Span<double>(s2, n);
+            BatchMoments(cn, new ReadOnlySpan<double>(shift, n), c1, c2);
             MergeBatch(Count.Slice(at, n), Mean.Slice(at, n), M2.Slice(at, n), cn, c1, c2);
         }
     }
 
-    /// <summary>count += valid; s1 += d; s2 += d² with d = x − shift, NaN values left out.</summary>
-    static void SumShifted(ReadOnlySpan<float> x, ReadOnlySpan<double> shift, Span<double> count, Span<double> s1, Span<double> s2)
+    /// <summary>Adds decoded frames (frame f at f × Cells in <paramref name="frames"/>, members in time order) to one slot for cells [start, start + length).</summary>
+    public unsafe void AddFrames(int slot, int start, int length, ReadOnlySpan<float> frames, ReadOnlySpan<int> members)
+    {
+        fixed (float* data = frames)
+        {
+            Span<nint> addresses = members.Length <= 256 ? stackalloc nint[members.Length] : new nint[members.Length];
+            for (int m = 0; m < members.Length; m++) addresses[m] = (nint)(data + (long)members[m] * Cells);
+            AddFrames(slot, start, length, addresses, new DecodedFloats());
+        }
+    }
+
+    /// <summary>count += valid; s1 += d; s2 += d² with d = x − shift over n values at <paramref name="x"/>, NaN values left out.</summary>
+    static unsafe void SumShifted<TValues>(byte* x, int n, TValues values, double* shift, double* count, double* s1, double* s2) where TValues : struct, IStoredFloats
     {
         int i = 0;
         if (Vector256.IsHardwareAccelerated)
         {
             var one = Vector256.Create(1.0);
-            for (; i + 4 <= x.Length; i += 4)
+            for (; i + 4 <= n; i += 4)
             {
-                var v = Vector256.WidenLower(Vector128.Create(x.Slice(i, 4)).ToVector256Unsafe());
+                var v = values.Load4(x + 4 * i);
                 var valid = Vector256.Equals(v, v);
-                var d = (v - Vector256.Create(shift.Slice(i, 4))) & valid;
-                (Vector256.Create(count.Slice(i, 4)) + (one & valid)).CopyTo(count.Slice(i, 4));
-                (Vector256.Create(s1.Slice(i, 4)) + d).CopyTo(s1.Slice(i, 4));
-                (Vector256.Create(s2.Slice(i, 4)) + d * d).CopyTo(s2.Slice(i, 4));
+                var d = (v - Vector256.Load(shift + i)) & valid;
+                Vector256.Store(Vector256.Load(count + i) + (one & valid), count + i);
+                Vector256.Store(Vector256.Load(s1 + i) + d, s1 + i);
+                Vector256.Store(Vector256.Load(s2 + i) + d * d, s2 + i);
             }
         }
-        for (; i < x.Length; i++)
-            if (!float.IsNaN(x[i])) { double d = x[i] - shift[i]; count[i]++; s1[i] += d; s2[i] += d * d; }
+        for (; i < n; i++)
+        {
+            double v = values.Load(x + 4 * i);
+            if (!double.IsNaN(v)) { double d = v - shift[i]; count[i]++; s1[i] += d; s2[i] += d * d; }
+        }
     }
 
     /// <summary>
     /// <see cref="SumShifted"/> for four frames at once: the sums are loaded and stored once per
     /// four values of a cell, which keeps the loop on the frames rather than on the sums.
     /// </summary>
-    static void SumShifted4(ReadOnlySpan<float> x0, ReadOnlySpan<float> x1, ReadOnlySpan<float> x2, ReadOnlySpan<float> x3,
-        ReadOnlySpan<double> shift, Span<double> count, Span<double> s1, Span<double> s2)
+    static unsafe void SumShifted4<TValues>(byte* x0, byte* x1, byte* x2, byte* x3, int n, TValues values,
+        double* shift, double* count, double* s1, double* s2) where TValues : struct, IStoredFloats
     {
         int i = 0;
         if (Vector256.IsHardwareAccelerated)
         {
             var one = Vector256.Create(1.0);
-            for (; i + 4 <= x0.Length; i += 4)
+            for (; i + 4 <= n; i += 4)
             {
-                var k = Vector256.Create(shift.Slice(i, 4));
-                var n = Vector256.Create(count.Slice(i, 4));
-                var a = Vector256.Create(s1.Slice(i, 4));
-                var b = Vector256.Create(s2.Slice(i, 4));
-                Accumulate(x0.Slice(i, 4), k, one, ref n, ref a, ref b);
-                Accumulate(x1.Slice(i, 4), k, one, ref n, ref a, ref b);
-                Accumulate(x2.Slice(i, 4), k, one, ref n, ref a, ref b);
-                Accumulate(x3.Slice(i, 4), k, one, ref n, ref a, ref b);
-                n.CopyTo(count.Slice(i, 4));
-                a.CopyTo(s1.Slice(i, 4));
-                b.CopyTo(s2.Slice(i, 4));
+                var k = Vector256.Load(shift + i);
+                var c = Vector256.Load(count + i);
+                var a = Vector256.Load(s1 + i);
+                var b = Vector256.Load(s2 + i);
+                Accumulate(values.Load4(x0 + 4 * i), k, one, ref c, ref a, ref b);
+                Accumulate(values.Load4(x1 + 4 * i), k, one, ref c, ref a, ref b);
+                Accumulate(values.Load4(x2 + 4 * i), k, one, ref c, ref a, ref b);
+                Accumulate(values.Load4(x3 + 4 * i), k, one, ref c, ref a, ref b);
+                Vector256.Store(c, count + i);
+                Vector256.Store(a, s1 + i);
+                Vector256.Store(b, s2 + i);
             }
         }
-        if (i < x0.Length)
+        if (i < n)
         {
-            SumShifted(x0[i..], shift[i..], count[i..], s1[i..], s2[i..]);
-            SumShifted(x1[i..], shift[i..], count[i..], s1[i..], s2[i..]);
-            SumShifted(x2[i..], shift[i..], count[i..], s1[i..], s2[i..]);
-            SumShifted(x3[i..], shift[i..], count[i..], s1[i..], s2[i..]);
+            long skip = 4L * i;
+            SumShifted(x0 + skip, n - i, values, shift + i, count + i, s1 + i, s2 + i);
+            SumShifted(x1 + skip, n - i, values, shift + i, count + i, s1 + i, s2 + i);
+            SumShifted(x2 + skip, n - i, values, shift + i, count + i, s1 + i, s2 + i);
+            SumShifted(x3 + skip, n - i, values, shift + i, count + i, s1 + i, s2 + i);
         }
     }
 
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
-    static void Accumulate(ReadOnlySpan<float> x, Vector256<double> shift, Vector256<double> one, ref Vector256<double> n, ref Vector256<double> s1, ref Vector256<double> s2)
+    static void Accumulate(Vector256<double> v, Vector256<double> shift, Vector256<double> one, ref Vector256<double> n, ref Vector256<double> s1, ref Vector256<double> s2)
     {
-        var v = Vector256.WidenLower(Vector128.Create(x).ToVector256Unsafe());
         var valid = Vector256.Equals(v, v);
         var d = (v - shift) & valid;
         n += one & valid;
@@ -242,14 +254,30 @@ public sealed class MomentState : IClimatologySlots, IDisposable
 
     public void Fill(int slot, Span<float> mean, Span<float> std, Span<float> count)
     {
-        int at = slot * Cells;
-        for (int i = 0; i < Cells; i++)
+        int at = slot * Cells, i = 0;
+        ReadOnlySpan<double> n = Count.Slice(at, Cells), m = Mean.Slice(at, Cells), q = M2.Slice(at, Cells);
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var nan = Vector256.Create(double.NaN);
+            for (; i + 4 <= Cells; i += 4)
+            {
+                var k = Vector256.Create(n.Slice(i, 4));
+                var has = Vector256.GreaterThan(k, Vector256<double>.Zero);
+                var sd = Vector256.Sqrt(Vector256.Max(Vector256<double>.Zero, Vector256.Create(q.Slice(i, 4))) / k);
+                Narrow(Vector256.ConditionalSelect(has, Vector256.Create(m.Slice(i, 4)), nan)).CopyTo(mean.Slice(i, 4));
+                Narrow(Vector256.ConditionalSelect(has, sd, nan)).CopyTo(std.Slice(i, 4));
+                Narrow(k).CopyTo(count.Slice(i, 4));
+            }
+        }
+        for (; i < Cells; i++)
         {
             mean[i] = (float)MeanOrNaN(at + i);
             std[i] = (float)StandardDeviation(at + i);
-            count[i] = (float)Count[at + i];
+            count[i] = (float)n[i];
         }
     }
+
+    static Vector128<float> Narrow(Vector256<double> v) => Vector128.Narrow(v.GetLower(), v.GetUpper());
 
     public double MeanOrNaN(int index) => Count[index] > 0 ? Mean[index] : double.NaN;
 }

@@ -29,16 +29,23 @@ public sealed class WorkerTeam : IDisposable
     public int Size => _helpers.Length + 1;
 
     /// <summary>Runs body(i) for every i below count; rethrows the first fault of any worker.</summary>
-    public void Run(int count, Action<int> body)
+    public void Run(int count, Action<int> body) => Run(count, body, Size);
+
+    /// <summary>
+    /// <see cref="Run(int, Action{int})"/> on only <paramref name="workers"/> of the team (the
+    /// calling thread and workers − 1 helpers), leaving a core to another job of the process.
+    /// </summary>
+    public void Run(int count, Action<int> body, int workers)
     {
         if (count <= 0) return;
+        int helpers = Math.Clamp(workers - 1, 0, _helpers.Length);
         _body = body;
         _count = count;
         _next = 0;
         _fault = null;
-        _active = _helpers.Length + 1;
+        _active = helpers + 1;
         _done.Reset();
-        foreach (var s in _start) s.Release();
+        for (int h = 0; h < helpers; h++) _start[h].Release();
         Drain();
         Finish();
         _done.Wait();

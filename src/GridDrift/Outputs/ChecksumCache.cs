@@ -30,12 +30,35 @@ public static class ChecksumCache
         return Path.Combine(root, "griddrift", "sha256.tsv");
     }
 
+    /// <summary>Checksums of this process, by the same key: a file hashed ahead (<see cref="Prefetch"/>) or by another step is hashed once.</summary>
+    static readonly System.Collections.Concurrent.ConcurrentDictionary<string, Lazy<string>> InProcess = new();
+
     public static string Sha256(string path)
     {
         var info = new FileInfo(path);
-        if (!Enabled || !info.Exists) return Provenance.Sha256(path);
+        if (!info.Exists) return Provenance.Sha256(path);
         string key = string.Join('\t', Path.GetFullPath(path), info.Length.ToString(CultureInfo.InvariantCulture),
             info.LastWriteTimeUtc.Ticks.ToString(CultureInfo.InvariantCulture));
+        return InProcess.GetOrAdd(key, k => new Lazy<string>(() => Compute(path, k))).Value;
+    }
+
+    /// <summary>
+    /// Starts hashing <paramref name="paths"/> in the background, so a step's checksums run beside
+    /// its frame loop from the start rather than after the files are opened; a later
+    /// <see cref="Sha256"/> of the same file waits for this one instead of hashing again.
+    /// Faults are left to that later call, which reports them.
+    /// </summary>
+    public static Task Prefetch(IEnumerable<string> paths) => Task.Run(() =>
+    {
+        foreach (var path in paths)
+            try { if (File.Exists(path)) Sha256(path); }
+            catch (IOException) { }
+            catch (UnauthorizedAccessException) { }
+    });
+
+    static string Compute(string path, string key)
+    {
+        if (!Enabled) return Provenance.Sha256(path);
         string? cache = CachePath();
         if (cache is not null && Lookup(cache, key) is { } known) return known;
         string sum = Provenance.Sha256(path);

@@ -42,6 +42,11 @@ public static class ClimatologyStep
 
     public static ClimatologySummary Run(ClimatologyOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
+        // the input checksums take a core-second per gigabyte: start them before the files are even
+        // opened, so they run beside the frame loop (a shard's partial state needs only its own
+        // files' checksums, and a gather takes them from the shards' states)
+        bool wholeRecord = o.PartialOut is null && o.PartialIn is null;
+        var hashing = wholeRecord ? ChecksumCache.Prefetch(o.Inputs) : Task.CompletedTask;
         using var source = FrameSource.Open(o.Inputs, o.Variable);
         if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var warnings = new List<string>(source.Warnings);
@@ -63,10 +68,8 @@ public static class ClimatologyStep
         if (basePeriod.Years < NormalYears - 1e-9)
             warnings.Add($"the base period {basePeriod.ToIsoString()} covers {basePeriod.Years:0.##} years, fewer than the {NormalYears:0} years of a " +
                 "climatological standard normal (WMO-No. 1203, Guidelines on the Calculation of Climate Normals, 2017): treat it as a provisional baseline");
-        // the input checksums take a core-second per gigabyte: hash while the frames stream
-        // a shard's partial state needs only its own files' checksums; a gather takes them from the shards' states
         var remembered = new Dictionary<string, string>();
-        var provenance = o.PartialOut is not null || o.PartialIn is not null ? null : Task.Run(() => Provenance.For(o.Command, source.Files));
+        var provenance = wholeRecord ? Task.Run(() => Provenance.For(o.Command, source.Files)) : null;
         var scheme = SlotScheme.For(o.Kind, calendar, usedTimes);
         using var state = new MomentState(scheme.SlotCount, source.FrameLength);
         if (o.PartialIn is { } parts)
@@ -88,7 +91,7 @@ public static class ClimatologyStep
         else
         {
             var own = o.Slice is { } slice ? used.Where(slice.Contains).ToArray() : used;
-            Accumulate(source, own, scheme, state, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+            Accumulate(source, own, scheme, state, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), hashing, progress);
             if (o.PartialOut is { } partial)
             {
                 PartialClimatologyFile.Write(partial, state, new Dictionary<string, string>
@@ -170,34 +173,40 @@ public static class ClimatologyStep
         return CfTime.Of(t.Calendar, t.Year + m / 12, (int)(m % 12) + 1, 1);
     }
 
-    /// <summary>Frames held at once: enough that a diurnal slot recurs a few times within a batch, never more than 256 MiB.</summary>
-    static int BatchSize(int frameLength, int workers) => Math.Clamp((int)(256L * 1024 * 1024 / (4L * frameLength)), 2 * workers, 768);
+    /// <summary>Frames held at once: enough that a diurnal slot recurs a few times within a batch, never more than 256 MiB of buffer or mapped window.</summary>
+    static int BatchSize(long bytesPerFrame, int workers) => (int)Math.Clamp(256L * 1024 * 1024 / bytesPerFrame, 2 * workers, 768);
 
     /// <summary>
-    /// Reads a batch of frames in parallel, groups them by slot (in time order within a slot), then
-    /// adds each group to its slot with each worker owning a range of cells.
+    /// Takes a batch of frames — mapped where the files allow (<see cref="FrameSource.TryMap"/>),
+    /// else read in parallel into a buffer — groups them by slot (in time order within a slot),
+    /// then adds each group to its slot with each worker owning a range of cells.
     /// </summary>
-    static void Accumulate(FrameSource source, int[] used, SlotScheme scheme, MomentState state, int workers, IProgress<(int, int)>? progress)
+    static unsafe void Accumulate(FrameSource source, int[] used, SlotScheme scheme, MomentState state, int workers, Task hashing, IProgress<(int, int)>? progress)
     {
-        int batchSize = BatchSize(source.FrameLength, workers);
-        using var frames = new LargeBuffer<float>((long)batchSize * source.FrameLength);
+        using var mapped = source.TryMap();
+        int cells = source.FrameLength;
+        int batchSize = BatchSize(mapped?.Stride ?? 4L * cells, workers);
+        using var frames = mapped is null ? new LargeBuffer<float>((long)batchSize * cells) : null;
+        nint buffer = frames is null ? 0 : (nint)System.Runtime.CompilerServices.Unsafe.AsPointer(ref System.Runtime.InteropServices.MemoryMarshal.GetReference(frames.Span));
         var slots = new int[batchSize];
         var order = new int[batchSize];
         var groupStart = new int[batchSize + 1];
+        var addresses = new nint[batchSize]; // the batch's frames in group order
         // many more pieces than workers: a worker slowed by another thread (the checksum) does not hold up the batch
-        int cells = source.FrameLength, pieces = Math.Min(cells, 16 * workers), chunk = (cells + pieces - 1) / pieces;
+        int pieces = Math.Min(cells, 16 * workers), chunk = (cells + pieces - 1) / pieces;
         int start = 0, n = 0, groups = 0;
-        Action<int> read = k => source.ReadFrame(used[start + k], frames.Span.Slice(k * cells, cells));
-        Action<int> add = w =>
+        Action<int> read = k => source.ReadFrame(used[start + k], frames!.Span.Slice(k * cells, cells));
+        void AddGroups<TValues>(int w, TValues values) where TValues : struct, IStoredFloats
         {
             int from = w * chunk, length = Math.Min(chunk, cells - from);
             if (length <= 0) return;
             for (int g = 0; g < groups; g++)
             {
                 int slot = slots[order[groupStart[g]]];
-                if (slot >= 0) state.AddFrames(slot, from, length, frames.Span, order.AsSpan(groupStart[g], groupStart[g + 1] - groupStart[g]));
+                if (slot >= 0) state.AddFrames(slot, from, length, addresses.AsSpan(groupStart[g], groupStart[g + 1] - groupStart[g]), values);
             }
-        };
+        }
+        Action<int> add = mapped is null ? w => AddGroups(w, new DecodedFloats()) : w => AddGroups(w, mapped.Decoder);
         using var team = new WorkerTeam(workers);
         for (start = 0; start < used.Length; start += batchSize)
         {
@@ -215,8 +224,18 @@ public static class ClimatologyStep
             for (int k = 0; k < n; k++) slots[k] = scheme.SlotOf(source.Times[used[start + k]]);
             // Array.Sort is not stable: put each group back in time order
             for (int g = 0; g < groups; g++) Array.Sort(order, groupStart[g], groupStart[g + 1] - groupStart[g]);
-            team.Run(n, read);
-            team.Run(pieces, add);
+            if (mapped is not null)
+            {
+                mapped.Map(used[start], used[start + n - 1]);
+                for (int k = 0; k < n; k++) addresses[k] = (nint)mapped.Address(used[start + order[k]]);
+            }
+            else
+            {
+                team.Run(n, read);
+                for (int k = 0; k < n; k++) addresses[k] = buffer + 4 * (nint)order[k] * cells;
+            }
+            // while the checksums run they hold a core: the frame loop takes the others, and all once they are done
+            team.Run(pieces, add, hashing.IsCompleted || workers == 1 ? workers : workers - 1);
             progress?.Report((start + n, used.Length));
         }
     }

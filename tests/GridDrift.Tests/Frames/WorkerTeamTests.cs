@@ -28,4 +28,19 @@ public class WorkerTeamTests
         team.Run(4, i => Interlocked.Add(ref sum, i));
         Assert.Equal(6, sum);
     }
+
+    [Fact]
+    public void A_job_on_part_of_the_team_runs_on_no_more_threads_than_asked()
+    {
+        using var team = new WorkerTeam(3);
+        for (int workers = 1; workers <= 3; workers++)
+        {
+            var threads = new System.Collections.Concurrent.ConcurrentDictionary<int, bool>();
+            var hits = new int[64];
+            // each index waits a little, so that every released helper gets a share
+            team.Run(64, i => { threads[Environment.CurrentManagedThreadId] = true; Interlocked.Increment(ref hits[i]); Thread.Sleep(1); }, workers);
+            Assert.All(hits, h => Assert.Equal(1, h));
+            Assert.InRange(threads.Count, 1, workers);
+        }
+    }
 }

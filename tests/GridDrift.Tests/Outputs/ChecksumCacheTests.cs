@@ -33,4 +33,37 @@ public class ChecksumCacheTests
             Environment.SetEnvironmentVariable("XDG_CACHE_HOME", previous == "" ? null : previous);
         }
     }
+
+    [Fact]
+    public void A_file_longer_than_one_hashing_window_and_an_empty_file_hash_as_their_whole_bytes()
+    {
+        using var dir = new TempFolder();
+        string big = dir.File("big.bin"), empty = dir.File("empty.bin");
+        var bytes = new byte[(64 << 20) + 3]; // one byte past a 64 MiB window, and two more
+        new Random(7).NextBytes(bytes);
+        File.WriteAllBytes(big, bytes);
+        File.WriteAllBytes(empty, []);
+        // the platform's one-shot SHA-256 of the bytes in memory, and FIPS 180-2's value for the empty message
+        Assert.Equal(Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(bytes)), Provenance.Sha256(big));
+        Assert.Equal("e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855", Provenance.Sha256(empty));
+    }
+
+    [Fact]
+    public void A_checksum_started_ahead_is_the_one_handed_out_later()
+    {
+        using var dir = new TempFolder();
+        string previous = Environment.GetEnvironmentVariable("XDG_CACHE_HOME") ?? "";
+        try
+        {
+            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", dir.File("cache"));
+            string path = dir.File("input.nc");
+            File.WriteAllText(path, "abc");
+            ChecksumCache.Prefetch([path, dir.File("absent.nc")]).Wait();
+            Assert.Equal(Abc, ChecksumCache.Sha256(path));
+        }
+        finally
+        {
+            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", previous == "" ? null : previous);
+        }
+    }
 }

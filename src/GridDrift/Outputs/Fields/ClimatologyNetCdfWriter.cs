@@ -77,7 +77,11 @@ public static class ClimatologyNetCdfWriter
 
     static float[] Filled(float[] values)
     {
-        for (int i = 0; i < values.Length; i++) if (float.IsNaN(values[i])) values[i] = Fill;
+        var vectors = System.Runtime.InteropServices.MemoryMarshal.Cast<float, System.Numerics.Vector<float>>(values.AsSpan());
+        var fill = new System.Numerics.Vector<float>(Fill);
+        for (int k = 0; k < vectors.Length; k++)
+            vectors[k] = System.Numerics.Vector.ConditionalSelect(System.Numerics.Vector.Equals(vectors[k], vectors[k]), vectors[k], fill);
+        for (int i = vectors.Length * System.Numerics.Vector<float>.Count; i < values.Length; i++) if (float.IsNaN(values[i])) values[i] = Fill;
         return values;
     }
 }
