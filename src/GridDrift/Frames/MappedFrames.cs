@@ -19,9 +19,6 @@ public sealed unsafe class MappedFrames : IDisposable
     readonly List<(MemoryMappedViewAccessor View, int Piece, int First, int Last, nint Base)> _window = [];
 
     public BigEndianFloats Decoder { get; }
-    public int FrameBytes { get; }
-    /// <summary>Bytes from one frame to the next in the largest file: what a window of n frames spans.</summary>
-    public long Stride { get; }
 
     readonly string _variable;
 
@@ -31,8 +28,6 @@ public sealed unsafe class MappedFrames : IDisposable
         _pieces = pieces;
         _files = new MemoryMappedFile?[pieces.Length];
         Decoder = new BigEndianFloats(fill);
-        FrameBytes = (int)pieces[0].Layout.Bytes;
-        Stride = pieces.Max(p => p.Layout.Stride);
     }
 
     /// <summary>Maps frames [first, last] of the record (global indices), unmapping the window before.</summary>

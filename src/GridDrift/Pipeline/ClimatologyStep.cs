@@ -173,7 +173,7 @@ public static class ClimatologyStep
         return CfTime.Of(t.Calendar, t.Year + m / 12, (int)(m % 12) + 1, 1);
     }
 
-    /// <summary>Frames held at once: enough that a diurnal slot recurs a few times within a batch, never more than 256 MiB of buffer or mapped window.</summary>
+    /// <summary>Frames held at once: enough that a diurnal slot recurs a few times within a batch, never more than 256 MiB of frames.</summary>
     static int BatchSize(long bytesPerFrame, int workers) => (int)Math.Clamp(256L * 1024 * 1024 / bytesPerFrame, 2 * workers, 768);
 
     /// <summary>
@@ -185,7 +185,8 @@ public static class ClimatologyStep
     {
         using var mapped = source.TryMap();
         int cells = source.FrameLength;
-        int batchSize = BatchSize(mapped?.Stride ?? 4L * cells, workers);
+        // sized by the variable's own bytes: in a mapped window only its pages are touched, however many variables the records interleave
+        int batchSize = BatchSize(4L * cells, workers);
         using var frames = mapped is null ? new LargeBuffer<float>((long)batchSize * cells) : null;
         nint buffer = frames is null ? 0 : (nint)System.Runtime.CompilerServices.Unsafe.AsPointer(ref System.Runtime.InteropServices.MemoryMarshal.GetReference(frames.Span));
         var slots = new int[batchSize];
