@@ -105,17 +105,6 @@ public sealed class MomentState : IClimatologySlots, IDisposable
         }
     }
 
-    /// <summary>Adds decoded frames (frame f at f × Cells in <paramref name="frames"/>, members in time order) to one slot for cells [start, start + length).</summary>
-    public unsafe void AddFrames(int slot, int start, int length, ReadOnlySpan<float> frames, ReadOnlySpan<int> members)
-    {
-        fixed (float* data = frames)
-        {
-            Span<nint> addresses = members.Length <= 256 ? stackalloc nint[members.Length] : new nint[members.Length];
-            for (int m = 0; m < members.Length; m++) addresses[m] = (nint)(data + (long)members[m] * Cells);
-            AddFrames(slot, start, length, addresses, new DecodedFloats());
-        }
-    }
-
     /// <summary>count += valid; s1 += d; s2 += d² with d = x − shift over n values at <paramref name="x"/>, NaN values left out.</summary>
     static unsafe void SumShifted<TValues>(byte* x, int n, TValues values, double* shift, double* count, double* s1, double* s2) where TValues : struct, IStoredFloats
     {

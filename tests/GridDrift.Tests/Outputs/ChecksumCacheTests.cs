@@ -8,14 +8,27 @@ public class ChecksumCacheTests
     // FIPS 180-2, appendix B.1: SHA-256("abc")
     const string Abc = "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad";
 
-    [Fact]
-    public void A_remembered_checksum_is_used_only_while_the_file_is_unchanged()
+    /// <summary>Runs <paramref name="body"/> with the checksum cache in DIR/cache, then puts XDG_CACHE_HOME back.</summary>
+    static void WithCacheIn(TempFolder dir, Action body)
     {
-        using var dir = new TempFolder();
         string previous = Environment.GetEnvironmentVariable("XDG_CACHE_HOME") ?? "";
         try
         {
             Environment.SetEnvironmentVariable("XDG_CACHE_HOME", dir.File("cache"));
+            body();
+        }
+        finally
+        {
+            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", previous == "" ? null : previous);
+        }
+    }
+
+    [Fact]
+    public void A_remembered_checksum_is_used_only_while_the_file_is_unchanged()
+    {
+        using var dir = new TempFolder();
+        WithCacheIn(dir, () =>
+        {
             string path = dir.File("input.nc");
             File.WriteAllText(path, "abc");
             Assert.Equal(Abc, ChecksumCache.Sha256(path));
@@ -27,11 +40,7 @@ public class ChecksumCacheTests
             File.SetLastWriteTimeUtc(path, DateTime.UtcNow.AddMinutes(1));
             string fresh = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData("abd"u8));
             Assert.Equal(fresh, ChecksumCache.Sha256(path));
-        }
-        finally
-        {
-            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", previous == "" ? null : previous);
-        }
+        });
     }
 
     [Fact]
@@ -52,18 +61,12 @@ public class ChecksumCacheTests
     public void A_checksum_started_ahead_is_the_one_handed_out_later()
     {
         using var dir = new TempFolder();
-        string previous = Environment.GetEnvironmentVariable("XDG_CACHE_HOME") ?? "";
-        try
+        WithCacheIn(dir, () =>
         {
-            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", dir.File("cache"));
             string path = dir.File("input.nc");
             File.WriteAllText(path, "abc");
             ChecksumCache.Prefetch([path, dir.File("absent.nc")]).Wait();
             Assert.Equal(Abc, ChecksumCache.Sha256(path));
-        }
-        finally
-        {
-            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", previous == "" ? null : previous);
-        }
+        });
     }
 }

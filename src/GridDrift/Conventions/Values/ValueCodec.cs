@@ -115,10 +115,9 @@ public sealed class ValueCodec
     public void DecodeInPlace(Span<float> values)
     {
         if (StorageType != NcType.Float || IsPacked) throw new InvalidOperationException("only for unpacked float storage");
-        bool hasRange = !double.IsNegativeInfinity(_validMin) || !double.IsPositiveInfinity(_validMax);
-        if (_missing.Length == 1 && !hasRange)
+        if (TrySingleFill(out float fill))
         {
-            ReplaceVectorised(values, (float)_missing[0]);
+            if (!float.IsNaN(fill)) ReplaceVectorised(values, fill);
             return;
         }
         float lo = (float)_validMin, hi = (float)_validMax;
