@@ -7,6 +7,7 @@ using GridDrift.Frames;
 using GridDrift.Pipeline;
 using GridDrift.Similarity;
 using GridDrift.Statistics;
+using GridDrift.Results;
 
 namespace GridDrift.Benchmarks;
 
@@ -47,9 +48,9 @@ internal static class LongRecordBenchmark
         Console.WriteLine($"  record: {files.Count} files, {gigabytes:0.0} GB, ready in {clock.Elapsed.TotalSeconds:0} s");
 
         clock.Restart();
-        GridDrift.Outputs.Provenance.Sha256(files[0]);
+        GridDrift.Formats.FileHash.Sha256(files[0]);
         double hashRate = new FileInfo(files[0]).Length / 1e9 / clock.Elapsed.TotalSeconds;
-        foreach (var f in files) GridDrift.Outputs.ChecksumCache.Sha256(f); // remembered for the commands below, as after any first command
+        foreach (var f in files) GridDrift.Formats.ChecksumCache.Sha256(f); // remembered for the commands below, as after any first command
         Console.WriteLine($"  input checksums: SHA-256 at {hashRate:0.00} GB/s, {gigabytes / hashRate:0.0} s for the record once; remembered by path, size and time after");
 
         string compressed = Path.Combine(dir, "tb_hourly_05deg_00_deflate1.nc");

@@ -10,6 +10,7 @@ using GridDrift.Outputs.Fields;
 using GridDrift.Outputs.Series;
 using GridDrift.Regions;
 using GridDrift.Statistics;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 
@@ -111,7 +112,10 @@ public static class AnomaliesStep
                 w.EndDefinitions();
             }
             var slice = o.Slice ?? FrameSlice.Whole(source.FrameCount);
-            int noSlot = Stream(source, slice, clim, o, mask, plan, w, time, data, series, progress);
+            var fields = w is null ? null : new FieldRecords(w, time!, data!, source.TimeUnits, source.FrameLength);
+            var op = new AnomalyOperator(o.Kind, clim.Scheme, clim.Mean, clim.Std, clim.Cells, mask, plan, o.MinValid, source.Times, fields, series);
+            FrameEngine.Run(source, Enumerable.Range(slice.First, slice.Count).ToArray(), op, new EngineSettings(o.Workers, progress));
+            int noSlot = op.FramesWithoutSlot;
             if (noSlot > 0) warnings.Add($"{noSlot} frames fall in no slot of the climatology (a time of day it does not hold): their anomalies are missing");
             w?.Commit();
             series?.Complete();
@@ -126,61 +130,4 @@ public static class AnomaliesStep
     /// <summary>Where the region series go without --series: OUT_series.nc beside the fields.</summary>
     public static string DefaultSeriesPath(string output) =>
         Path.Combine(Path.GetDirectoryName(Path.GetFullPath(output))!, Path.GetFileNameWithoutExtension(output) + "_series.nc");
-
-    static int Stream(FrameSource source, FrameSlice slice, ClimatologyFile clim, AnomaliesOptions o, RegionMask? mask, SeparablePlan? plan,
-        FieldNetCdfWriter? w, ClassicWriter.Definition? time, ClassicWriter.Definition? data, ISeriesSink? series, IProgress<(int, int)>? progress)
-    {
-        int workers = Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount);
-        var frames = Enumerable.Range(0, workers).Select(_ => new float[source.FrameLength]).ToArray();
-        var anomalies = Enumerable.Range(0, workers).Select(_ => new float[source.FrameLength]).ToArray();
-        var reducers = mask is null ? [] : Enumerable.Range(0, workers).Select(_ => new RegionReducer(mask, [RegionStatistic.Mean, RegionStatistic.Valid], plan)).ToArray();
-        var results = Enumerable.Range(0, workers).Select(_ => new double[(mask?.Count ?? 0) * 2]).ToArray();
-        var slots = new int[workers];
-        int regions = mask?.Count ?? 0;
-        var values = new double[regions];
-        var valid = new double[regions];
-        var one = new double[1];
-        int batch = 0, noSlot = 0;
-        Action<int> work = k =>
-        {
-            var t = source.Times[batch + k];
-            int slot = clim.Scheme.SlotOf(t);
-            slots[k] = slot;
-            source.ReadFrame(batch + k, frames[k]);
-            if (slot < 0) Array.Fill(anomalies[k], float.NaN);
-            else Anomaly.Compute(o.Kind, frames[k], clim.MeanOf(slot), clim.StdOf(slot), anomalies[k]);
-            if (mask is not null) reducers[k].Reduce(anomalies[k], results[k]);
-        };
-        using var team = new WorkerTeam(workers);
-        var record = new float[source.FrameLength];
-        for (batch = slice.First; batch < slice.End; batch += workers)
-        {
-            int n = Math.Min(workers, slice.End - batch);
-            team.Run(n, work);
-            for (int k = 0; k < n; k++)
-            {
-                if (slots[k] < 0) noSlot++;
-                if (w is not null)
-                {
-                    one[0] = source.TimeUnits.Encode(source.Times[batch + k]);
-                    w.Writer.WriteRecord<double>(time!, batch + k - slice.First, one);
-                    var a = anomalies[k];
-                    for (int i = 0; i < a.Length; i++) record[i] = float.IsNaN(a[i]) ? ClimatologyNetCdfWriter.Fill : a[i];
-                    w.Writer.WriteRecord<float>(data!, batch + k - slice.First, record);
-                }
-                if (series is not null)
-                {
-                    for (int r = 0; r < regions; r++)
-                    {
-                        double v = results[k][2 * r + 1];
-                        valid[r] = v;
-                        values[r] = v > 0 && v >= o.MinValid ? results[k][2 * r] : double.NaN;
-                    }
-                    series.Write(source.Times[batch + k], values, valid);
-                }
-            }
-            progress?.Report((batch + n - slice.First, slice.Count));
-        }
-        return noSlot;
-    }
 }

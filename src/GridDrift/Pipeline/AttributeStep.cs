@@ -5,6 +5,7 @@ using GridDrift.Conventions.Time;
 using GridDrift.Outputs;
 using GridDrift.Outputs.Series;
 using GridDrift.Outputs.Tables;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 

@@ -6,6 +6,7 @@ using GridDrift.Formats.Classic;
 using GridDrift.Frames;
 using GridDrift.Outputs;
 using GridDrift.Outputs.Fields;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 
@@ -91,7 +92,8 @@ public static class ClimatologyStep
         else
         {
             var own = o.Slice is { } slice ? used.Where(slice.Contains).ToArray() : used;
-            Accumulate(source, own, scheme, state, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), hashing, progress);
+            // while the checksums run they hold a core: the frame loop takes the others, and all once they are done
+            FrameEngine.RunBatches(source, own, new SlotAccumulator(scheme, state, source.Times), new EngineSettings(o.Workers, progress), hashing);
             if (o.PartialOut is { } partial)
             {
                 PartialClimatologyFile.Write(partial, state, new Dictionary<string, string>
@@ -171,73 +173,5 @@ public static class ClimatologyStep
     {
         long m = t.Month - 1 + months;
         return CfTime.Of(t.Calendar, t.Year + m / 12, (int)(m % 12) + 1, 1);
-    }
-
-    /// <summary>Frames held at once: enough that a diurnal slot recurs a few times within a batch, never more than 256 MiB of frames.</summary>
-    static int BatchSize(long bytesPerFrame, int workers) => (int)Math.Clamp(256L * 1024 * 1024 / bytesPerFrame, 2 * workers, 768);
-
-    /// <summary>
-    /// Takes a batch of frames — mapped where the files allow (<see cref="FrameSource.TryMap"/>),
-    /// else read in parallel into a buffer — groups them by slot (in time order within a slot),
-    /// then adds each group to its slot with each worker owning a range of cells.
-    /// </summary>
-    static unsafe void Accumulate(FrameSource source, int[] used, SlotScheme scheme, MomentState state, int workers, Task hashing, IProgress<(int, int)>? progress)
-    {
-        using var mapped = source.TryMap();
-        int cells = source.FrameLength;
-        // sized by the variable's own bytes: in a mapped window only its pages are touched, however many variables the records interleave
-        int batchSize = BatchSize(4L * cells, workers);
-        using var frames = mapped is null ? new LargeBuffer<float>((long)batchSize * cells) : null;
-        nint buffer = frames is null ? 0 : (nint)System.Runtime.CompilerServices.Unsafe.AsPointer(ref System.Runtime.InteropServices.MemoryMarshal.GetReference(frames.Span));
-        var slots = new int[batchSize];
-        var order = new int[batchSize];
-        var groupStart = new int[batchSize + 1];
-        var addresses = new nint[batchSize]; // the batch's frames in group order
-        // many more pieces than workers: a worker slowed by another thread (the checksum) does not hold up the batch
-        int pieces = Math.Min(cells, 16 * workers), chunk = (cells + pieces - 1) / pieces;
-        int start = 0, n = 0, groups = 0;
-        Action<int> read = k => source.ReadFrame(used[start + k], frames!.Span.Slice(k * cells, cells));
-        void AddGroups<TValues>(int w, TValues values) where TValues : struct, IStoredFloats
-        {
-            int from = w * chunk, length = Math.Min(chunk, cells - from);
-            if (length <= 0) return;
-            for (int g = 0; g < groups; g++)
-            {
-                int slot = slots[order[groupStart[g]]];
-                if (slot >= 0) state.AddFrames(slot, from, length, addresses.AsSpan(groupStart[g], groupStart[g + 1] - groupStart[g]), values);
-            }
-        }
-        Action<int> add = mapped is null ? w => AddGroups(w, new DecodedFloats()) : w => AddGroups(w, mapped.Decoder);
-        using var team = new WorkerTeam(workers);
-        for (start = 0; start < used.Length; start += batchSize)
-        {
-            n = Math.Min(batchSize, used.Length - start);
-            for (int k = 0; k < n; k++)
-            {
-                slots[k] = scheme.SlotOf(source.Times[used[start + k]]);
-                order[k] = k;
-            }
-            Array.Sort(slots, order, 0, n); // sorts the slots too: restore them below
-            groups = 0;
-            for (int k = 0; k < n; k++)
-                if (k == 0 || slots[k] != slots[k - 1]) groupStart[groups++] = k;
-            groupStart[groups] = n;
-            for (int k = 0; k < n; k++) slots[k] = scheme.SlotOf(source.Times[used[start + k]]);
-            // Array.Sort is not stable: put each group back in time order
-            for (int g = 0; g < groups; g++) Array.Sort(order, groupStart[g], groupStart[g + 1] - groupStart[g]);
-            if (mapped is not null)
-            {
-                mapped.Map(used[start], used[start + n - 1]);
-                for (int k = 0; k < n; k++) addresses[k] = (nint)mapped.Address(used[start + order[k]]);
-            }
-            else
-            {
-                team.Run(n, read);
-                for (int k = 0; k < n; k++) addresses[k] = buffer + 4 * (nint)order[k] * cells;
-            }
-            // while the checksums run they hold a core: the frame loop takes the others, and all once they are done
-            team.Run(pieces, add, hashing.IsCompleted || workers == 1 ? workers : workers - 1);
-            progress?.Report((start + n, used.Length));
-        }
     }
 }

@@ -6,6 +6,7 @@ using GridDrift.Frames;
 using GridDrift.Outputs;
 using GridDrift.Outputs.Fields;
 using GridDrift.Physics;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 
@@ -82,25 +83,10 @@ public static class DeriveStep
                 .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
             w.EndDefinitions();
             var outUnits = o.Units is null ? null : Converter("kg m-2", o.Units, o.Output, "tcwv");
-            var frame = new float[source.FrameLength];
-            var ps = new float[cells];
-            var column = new double[levels];
-            var result = new float[cells];
-            for (int t = 0; t < source.FrameCount; t++)
-            {
-                source.ReadFrame(t, frame);
-                surface?.ReadFrame(t, ps);
-                for (int c = 0; c < cells; c++)
-                {
-                    for (int k = 0; k < levels; k++) column[k] = frame[k * cells + c] * qScale;
-                    double bottom = surface is null ? double.NaN : ps[c] * psScale;
-                    double v = surface is not null && double.IsNaN(bottom) ? double.NaN : Moisture.ColumnWaterVapour(pressure, column, bottom);
-                    result[c] = double.IsNaN(v) ? ClimatologyNetCdfWriter.Fill : (float)(outUnits?.Convert(v) ?? v);
-                }
-                w.Writer.WriteRecord<double>(time, t, [source.TimeUnits.Encode(source.Times[t])]);
-                w.Writer.WriteRecord<float>(tcwv, t, result);
-                progress?.Report((t + 1, source.FrameCount));
-            }
+            var sources = surface is null ? new[] { source } : [source, surface];
+            var op = new ColumnWaterVapourOperator(pressure, cells, qScale, psScale, outUnits, surface is not null, source.Times,
+                new FieldRecords(w, time, tcwv, source.TimeUnits, cells));
+            FrameEngine.Run(sources, Enumerable.Range(0, source.FrameCount).ToArray(), op, new EngineSettings(Workers: 0, progress));
             w.Commit();
             return new DeriveSummary(source.FrameCount, levels, "tcwv");
         }
@@ -170,26 +156,12 @@ public static class DeriveStep
                 .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
             w.EndDefinitions();
             var outUnits = o.Units is null ? null : Converter(rh ? "%" : "kg kg-1", o.Units, o.Output, name);
-            var x = new float[source.FrameLength];
-            var t2 = new float[source.FrameLength];
-            var p2 = new float[source.FrameLength];
-            var result = new float[source.FrameLength];
-            for (int f = 0; f < source.FrameCount; f++)
-            {
-                source.ReadFrame(f, x);
-                temperature?.ReadFrame(f, t2);
-                pressureField?.ReadFrame(f, p2);
-                for (int i = 0; i < x.Length; i++)
-                {
-                    double p = pressureField is null ? levels![i / cells] : p2[i] * pScale;
-                    double v = inputUnits.Convert(x[i]);
-                    double r = rh ? Moisture.RelativeHumidity(v, tUnits!.Convert(t2[i]), p) : Moisture.SpecificHumidityFromDewPoint(v, p);
-                    result[i] = double.IsFinite(r) ? (float)(outUnits?.Convert(r) ?? r) : ClimatologyNetCdfWriter.Fill;
-                }
-                w.Writer.WriteRecord<double>(time, f, [source.TimeUnits.Encode(source.Times[f])]);
-                w.Writer.WriteRecord<float>(output, f, result);
-                progress?.Report((f + 1, source.FrameCount));
-            }
+            var sources = new List<FrameSource> { source };
+            if (temperature is not null) sources.Add(temperature);
+            if (pressureField is not null) sources.Add(pressureField);
+            var op = new HumidityOperator(rh ? HumidityQuantity.RelativeHumidity : HumidityQuantity.SpecificHumidityFromDewPoint, pressureField is null ? levels : null, cells,
+                inputUnits, tUnits, pScale, outUnits, source.FrameLength, source.Times, new FieldRecords(w, time, output, source.TimeUnits, source.FrameLength));
+            FrameEngine.Run(sources, Enumerable.Range(0, source.FrameCount).ToArray(), op, new EngineSettings(Workers: 0, progress));
             w.Commit();
             return new DeriveSummary(source.FrameCount, levels?.Length ?? 1, name);
         }

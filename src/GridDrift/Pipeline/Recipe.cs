@@ -2,6 +2,7 @@ using System.Security.Cryptography;
 using System.Text;
 using Tomlyn.Parsing;
 using Tomlyn.Syntax;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 
@@ -129,5 +130,5 @@ public sealed class Recipe
 
     /// <summary>Fingerprint of a step: its own section, the [input] table it reads and the GridDrift version that ran it.</summary>
     public string Fingerprint(string section) =>
-        System.Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(GridDrift.Outputs.Provenance.Version + "\n" + Sections["input"].Canonical + "\n[" + section + "]\n" + Sections[section].Canonical)));
+        System.Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(Provenance.Version + "\n" + Sections["input"].Canonical + "\n[" + section + "]\n" + Sections[section].Canonical)));
 }

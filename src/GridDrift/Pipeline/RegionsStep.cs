@@ -6,6 +6,7 @@ using GridDrift.Outputs;
 using GridDrift.Outputs.Masks;
 using GridDrift.Outputs.Plots;
 using GridDrift.Regions;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 

@@ -1,3 +1,4 @@
+using GridDrift.Climatology;
 using GridDrift.Conventions.Coordinates;
 using GridDrift.Conventions.Time;
 using GridDrift.Formats;
@@ -7,6 +8,7 @@ using GridDrift.Grids;
 using GridDrift.Grids.Regridding;
 using GridDrift.Outputs;
 using GridDrift.Outputs.Fields;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 
@@ -91,49 +93,19 @@ public static class RegridStep
         var fraction = w.Writer.AddVariable(o.Variable + "_covered_fraction", NcType.Float, w.FieldDimensions(),
             [NcAttribute.Text("long_name", o.Method == "conservative" ? "fraction of the target cell's area covered by valid source cells" : "valid share of the interpolation weight"), NcAttribute.Text("units", "1")]);
         w.EndDefinitions();
-        var frame = new float[source.FrameLength];
-        var output = new float[target.CellCount];
-        var covered = new float[target.CellCount];
-        var record = new float[target.CellCount];
-        int written = 0, dropped = 0;
-        void Write(CfTime when, CfTime? from, CfTime? to, float[] field, float[] share)
-        {
-            for (int i = 0; i < field.Length; i++) record[i] = float.IsNaN(field[i]) ? ClimatologyNetCdfWriter.Fill : field[i];
-            w.Writer.WriteRecord<double>(time, written, [units.Encode(when)]);
-            if (bounds is not null) w.Writer.WriteRecord<double>(bounds, written, [units.Encode(from!.Value), units.Encode(to!.Value)]);
-            w.Writer.WriteRecord<float>(values, written, record);
-            w.Writer.WriteRecord<float>(fraction, written, share);
-            written++;
-        }
-        var fractionMeans = new float[target.CellCount];
-        var fractionSum = new double[target.CellCount];
-        int inPeriod = 0;
-        var means = resampling == Resampling.None ? null : new PeriodMeans(resampling, target.CellCount, (mid, from, to, mean) =>
-        {
-            for (int i = 0; i < fractionSum.Length; i++) fractionMeans[i] = (float)(fractionSum[i] / Math.Max(1, inPeriod));
-            Write(mid, from, to, mean, fractionMeans);
-            Array.Clear(fractionSum);
-            inPeriod = 0;
-        }, periodHours);
-        CfTime? period = null;
+        var records = new RemappedRecords(w, time, bounds, values, fraction, units, target.CellCount);
+        var means = resampling == Resampling.None ? null : new PeriodMeanSink(resampling, periodHours, target.CellCount, records);
+        var aligned = new CfTime[source.FrameCount];
+        var frames = new List<int>();
         for (int t = 0; t < source.FrameCount; t++)
-        {
-            if (CalendarAlignment.Align(source.Times[t], toCalendar) is not { } when) { dropped++; continue; }
-            source.ReadFrame(t, frame);
-            weights.Apply(frame, output, covered);
-            if (means is null) Write(when, null, null, output, covered);
-            else
+            if (CalendarAlignment.Align(source.Times[t], toCalendar) is { } when)
             {
-                var start = means.PeriodStart(when);
-                if (period is { } p && p != start) means.Flush();
-                period = start;
-                means.Add(when, output);
-                for (int i = 0; i < covered.Length; i++) fractionSum[i] += covered[i];
-                inPeriod++;
+                aligned[t] = when;
+                frames.Add(t);
             }
-            progress?.Report((t + 1, source.FrameCount));
-        }
+        FrameEngine.Run(source, frames, new RegridOperator(weights, aligned, means ?? (ICoveredFieldSink)records), new EngineSettings(Workers: 0, progress));
         means?.Flush();
+        int written = records.Written, dropped = source.FrameCount - frames.Count;
         w.Commit();
         return new RegridSummary(source.FrameCount, written, dropped, target, weights, reused);
     }
@@ -148,5 +120,31 @@ public static class RegridStep
             if (axes.Latitude is not null && axes.Longitude is not null) return GridReader.Read(reader, axes);
         }
         throw new BadInputException(path, null, "has no variable on a latitude-longitude grid to take the target grid from");
+    }
+
+    /// <summary>Remapped fields as records: time (and bounds), the field with missing values as the fill value, the covered fraction.</summary>
+    sealed class RemappedRecords(FieldNetCdfWriter w, ClassicWriter.Definition time, ClassicWriter.Definition? bounds, ClassicWriter.Definition values,
+        ClassicWriter.Definition fraction, TimeUnits units, int cells) : ICoveredFieldSink
+    {
+        readonly float[] _record = new float[cells];
+        readonly double[] _one = new double[1], _two = new double[2];
+
+        public int Written { get; private set; }
+
+        public void Write(CfTime when, ReadOnlySpan<float> field, ReadOnlySpan<float> coveredFraction, (CfTime From, CfTime To)? period = null)
+        {
+            for (int i = 0; i < field.Length; i++) _record[i] = float.IsNaN(field[i]) ? ClimatologyNetCdfWriter.Fill : field[i];
+            _one[0] = units.Encode(when);
+            w.Writer.WriteRecord<double>(time, Written, _one);
+            if (bounds is not null && period is { } p)
+            {
+                _two[0] = units.Encode(p.From);
+                _two[1] = units.Encode(p.To);
+                w.Writer.WriteRecord<double>(bounds, Written, _two);
+            }
+            w.Writer.WriteRecord<float>(values, Written, _record);
+            w.Writer.WriteRecord<float>(fraction, Written, coveredFraction);
+            Written++;
+        }
     }
 }

@@ -2,6 +2,8 @@ using System.Globalization;
 using System.Text.Json.Nodes;
 using GridDrift.Outputs;
 using GridDrift.Outputs.Report;
+using GridDrift.Results;
+using GridDrift.Formats;
 
 namespace GridDrift.Pipeline;
 

@@ -1,6 +1,7 @@
 using System.Text.Json.Nodes;
 using GridDrift.Outputs.Fields;
 using GridDrift.Outputs.Series;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 
@@ -86,7 +87,7 @@ public static class ShardGather
                 var joined = SeriesPieces.Join(pieces.Select(p => p.Outputs![0]).ToList(), outputs[0], table, variable, how, productInputs, shardsAttribute);
                 if (outputs.FirstOrDefault(o => o.EndsWith("_fields.nc", StringComparison.Ordinal)) is { } fields)
                 {
-                    var provenance = new GridDrift.Outputs.Provenance(how, joined.InputFiles, joined.InputSha256, DateTime.UtcNow);
+                    var provenance = new Provenance(how, joined.InputFiles, joined.InputSha256, DateTime.UtcNow);
                     FieldPieces.Join(pieces.Select(p => p.Outputs!.First(o => o.EndsWith("_fields.nc", StringComparison.Ordinal))).ToList(), fields, provenance.AsKeyValues(shardsAttribute));
                 }
                 summary = step switch

@@ -7,6 +7,7 @@ using GridDrift.Outputs;
 using GridDrift.Outputs.Series;
 using GridDrift.Regions;
 using GridDrift.Statistics;
+using GridDrift.Results;
 
 namespace GridDrift.Pipeline;
 
@@ -37,7 +38,7 @@ public static class StatsStep
 {
     public static StatsSummary Run(StatsOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
-        if (o.MinValid is < 0 or > 1) throw new ArgumentOutOfRangeException(nameof(o.MinValid), "--min-valid must be between 0 and 1");
+        ValidFraction.Check(o.MinValid);
         using var source = FrameSource.Open(o.Inputs, o.Variable);
         if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var grid = GridReader.Read(source.Template, source.Axes, o.EarthRadius);
@@ -64,48 +65,10 @@ public static class StatsStep
         using var products = new SeriesProducts(o.Output, o.Table, layout, o.Format);
         var slice = o.Slice ?? FrameSlice.Whole(source.FrameCount);
         if (slice.End > source.FrameCount) throw new ArgumentOutOfRangeException(nameof(o.Slice), $"frames {slice.First}..{slice.End} lie beyond the record's {source.FrameCount}");
-        var counts = Stream(source, slice, mask, plan, o.Statistics, statistics.Length, o.MinValid, products, Math.Max(1, o.Workers > 0 ? o.Workers : Environment.ProcessorCount), progress);
+        var op = new RegionStatisticsOperator(mask, plan, statistics, o.MinValid, source.Times, products);
+        FrameEngine.Run(source, Enumerable.Range(slice.First, slice.Count).ToArray(), op, new EngineSettings(o.Workers, progress));
         products.Complete();
-        return new StatsSummary(slice.Count, mask.Count, (long)slice.Count * mask.Count * statistics.Length, counts.Below, counts.NoData, grid, mask);
-    }
-
-    static (long Below, long NoData) Stream(FrameSource source, FrameSlice slice, RegionMask mask, SeparablePlan? plan, IReadOnlyList<RegionStatistic> requested, int quantities,
-        double minValid, ISeriesSink sink, int workers, IProgress<(int, int)>? progress)
-    {
-        var withValid = requested.Where(s => s != RegionStatistic.Valid).Append(RegionStatistic.Valid).ToArray();
-        int stride = withValid.Length;
-        var reducers = Enumerable.Range(0, workers).Select(_ => new RegionReducer(mask, withValid, plan)).ToArray();
-        var frames = Enumerable.Range(0, workers).Select(_ => new float[source.FrameLength]).ToArray();
-        var results = Enumerable.Range(0, workers).Select(_ => new double[mask.Count * stride]).ToArray();
-        var values = new double[mask.Count * quantities];
-        var valid = new double[mask.Count];
-        long below = 0, noData = 0;
-        for (int batch = slice.First; batch < slice.End; batch += workers)
-        {
-            int n = Math.Min(workers, slice.End - batch);
-            Parallel.For(0, n, new ParallelOptions { MaxDegreeOfParallelism = workers }, w =>
-            {
-                source.ReadFrame(batch + w, frames[w]);
-                reducers[w].Reduce(frames[w], results[w]);
-            });
-            for (int w = 0; w < n; w++)
-            {
-                var result = results[w];
-                for (int r = 0; r < mask.Count; r++)
-                {
-                    double v = result[r * stride + stride - 1];
-                    valid[r] = v;
-                    bool empty = !(v > 0);
-                    bool drop = empty || v < minValid;
-                    if (empty) noData++;
-                    else if (drop) below++;
-                    for (int q = 0; q < quantities; q++) values[r * quantities + q] = drop ? double.NaN : result[r * stride + q];
-                }
-                sink.Write(source.Times[batch + w], values, valid);
-            }
-            progress?.Report((batch + n - slice.First, slice.Count));
-        }
-        return (below, noData);
+        return new StatsSummary(slice.Count, mask.Count, (long)slice.Count * mask.Count * statistics.Length, op.BelowMinValid, op.NoData, grid, mask);
     }
 
     static SeriesQuantity Quantity(RegionStatistic s, string variable, string units) => s switch

@@ -1,5 +1,6 @@
 using GridDrift.Outputs;
 using GridDrift.Tests.Support;
+using GridDrift.Formats;
 
 namespace GridDrift.Tests.Outputs;
 
@@ -53,8 +54,8 @@ public class ChecksumCacheTests
         File.WriteAllBytes(big, bytes);
         File.WriteAllBytes(empty, []);
         // the platform's one-shot SHA-256 of the bytes in memory, and FIPS 180-2's value for the empty message
-        Assert.Equal(Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(bytes)), Provenance.Sha256(big));
-        Assert.Equal("e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855", Provenance.Sha256(empty));
+        Assert.Equal(Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(bytes)), FileHash.Sha256(big));
+        Assert.Equal("e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855", FileHash.Sha256(empty));
     }
 
     [Fact]

@@ -42,7 +42,7 @@ public sealed class RemapWeights
         // dividing by the float32 weights' own sum keeps a constant field exact
         _normalizedSum = sums;
         _fullCover = cover;
-        _normalized = n;
+        Volatile.Write(ref _normalized, n); // last: a worker that sees it sees the sums too
     }
 
     /// <summary>NaN is the only value not equal to itself: compared eight lanes at a time.</summary>
@@ -67,7 +67,10 @@ public sealed class RemapWeights
             ApplyWithMissing(source, target, coveredFraction);
             return;
         }
-        if (_normalized is null) Normalise();
+        // workers remap frames at once: the first to get here normalises, the others wait for it
+        if (Volatile.Read(ref _normalized) is null)
+            lock (RowStart)
+                if (_normalized is null) Normalise();
         var w = _normalized!;
         var col = Column;
         ref float x = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(source);

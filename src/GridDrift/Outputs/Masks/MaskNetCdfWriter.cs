@@ -2,6 +2,7 @@ using GridDrift.Formats;
 using GridDrift.Formats.Classic;
 using GridDrift.Grids;
 using GridDrift.Regions;
+using GridDrift.Results;
 
 namespace GridDrift.Outputs.Masks;
 

@@ -1,6 +1,7 @@
 using GridDrift.Conventions.Time;
 using GridDrift.Formats;
 using GridDrift.Formats.Classic;
+using GridDrift.Results;
 
 namespace GridDrift.Outputs.Series;
 

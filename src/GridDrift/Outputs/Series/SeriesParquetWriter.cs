@@ -1,6 +1,7 @@
 using GridDrift.Conventions.Time;
 using Parquet;
 using Parquet.Schema;
+using GridDrift.Results;
 
 namespace GridDrift.Outputs.Series;
 

@@ -1,5 +1,6 @@
 using GridDrift.Conventions.Time;
 using GridDrift.Formats.Classic;
+using GridDrift.Results;
 
 namespace GridDrift.Outputs.Series;
 

@@ -1,6 +1,6 @@
 using GridDrift.Conventions.Time;
 
-namespace GridDrift.Frames;
+namespace GridDrift.Climatology;
 
 /// <summary>How frames are grouped into means: each frame as it is, periods of whole hours from midnight, calendar days or months.</summary>
 public enum Resampling { None, Hours, Daily, Monthly }

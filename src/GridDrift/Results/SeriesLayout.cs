@@ -1,6 +1,6 @@
 using GridDrift.Conventions.Time;
 
-namespace GridDrift.Outputs.Series;
+namespace GridDrift.Results;
 
 /// <summary>One quantity of a series product: its variable name, CF metadata and the statistic it holds.</summary>
 public sealed record SeriesQuantity(string Name, string LongName, string Units, string CellMethods);

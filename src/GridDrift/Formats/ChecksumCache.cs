@@ -1,6 +1,6 @@
 using System.Globalization;
 
-namespace GridDrift.Outputs;
+namespace GridDrift.Formats;
 
 /// <summary>
 /// Input checksums remembered between runs: hashing costs about a core-second per gigabyte,
@@ -36,7 +36,7 @@ public static class ChecksumCache
     public static string Sha256(string path)
     {
         var info = new FileInfo(path);
-        if (!info.Exists) return Provenance.Sha256(path);
+        if (!info.Exists) return FileHash.Sha256(path);
         string key = string.Join('\t', Path.GetFullPath(path), info.Length.ToString(CultureInfo.InvariantCulture),
             info.LastWriteTimeUtc.Ticks.ToString(CultureInfo.InvariantCulture));
         return InProcess.GetOrAdd(key, k => new Lazy<string>(() => Compute(path, k))).Value;
@@ -58,10 +58,10 @@ public static class ChecksumCache
 
     static string Compute(string path, string key)
     {
-        if (!Enabled) return Provenance.Sha256(path);
+        if (!Enabled) return FileHash.Sha256(path);
         string? cache = CachePath();
         if (cache is not null && Lookup(cache, key) is { } known) return known;
-        string sum = Provenance.Sha256(path);
+        string sum = FileHash.Sha256(path);
         if (cache is not null) Remember(cache, key, sum);
         return sum;
     }
