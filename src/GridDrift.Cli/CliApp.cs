@@ -33,6 +33,13 @@ public static class CliApp
     public static int Run(string[] args, TextWriter output, TextWriter error)
     {
         var parse = BuildRoot(args).Parse(args);
+        bool asksForHelpOrVersion = args.Any(a => a is "--help" or "-h" or "-?" or "--version");
+        if (!asksForHelpOrVersion && UsageErrors.Of(parse) is { Count: > 0 } usage)
+        {
+            string name = parse.CommandResult.Command is RootCommand ? "griddrift" : "griddrift " + parse.CommandResult.Command.Name;
+            foreach (var line in usage) error.WriteLine($"{name}: {Terminal.Safe(line)}");
+            return ExitCodes.Usage;
+        }
         try
         {
             return parse.Invoke(new InvocationConfiguration { EnableDefaultExceptionHandler = false, Output = output, Error = error });

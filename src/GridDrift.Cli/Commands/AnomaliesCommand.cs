@@ -13,13 +13,13 @@ public static class AnomaliesCommand
         var files = CommonOptions.Files();
         var variable = CommonOptions.Variable();
         var climatology = new Option<string>("--climatology") { Description = "a climatology made by griddrift climatology", Required = true };
-        var kind = new Option<string>("--kind") { Description = "absolute (x − mean), relative (percent of the mean) or standardized (÷ standard deviation)", DefaultValueFactory = _ => "absolute" };
+        var kind = new Option<string>("--kind") { Description = "absolute (x − mean), relative (percent of the mean) or standardized (÷ standard deviation)", DefaultValueFactory = _ => "absolute" }.OneOf("absolute", "relative", "standardized");
         var output = new Option<string>("--out") { Description = "anomaly field NetCDF to write", Required = true };
         var regions = CommonOptions.Regions();
         regions.Required = false;
         var table = new Option<string?>("--table") { Description = "with --regions: tidy Parquet table of the region-mean anomalies" };
         var series = new Option<string?>("--series") { Description = "with --regions: series NetCDF of the region-mean anomalies (default: OUT_series.nc)" };
-        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 };
+        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 }.Between(0, 1);
         var format = CommonOptions.Format();
         var deflate = CommonOptions.Deflate();
         var shuffle = CommonOptions.Shuffle();
@@ -39,10 +39,9 @@ public static class AnomaliesCommand
                 throw new BadInputException(null, null, "--table and --series need --regions");
             var options = new AnomaliesOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(climatology)!, anomalyKind,
                 parse.GetValue(output)!, regionSpecs, parse.GetValue(table), parse.GetValue(series), parse.GetValue(minValid),
-                CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("anomalies", commandLine)) with { Units = parse.GetValue(units) };
-            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
+                null, CommonOptions.CommandLine("anomalies", commandLine)) with { Units = parse.GetValue(units) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => options.Output is null ? AnomaliesStep.Run(options, progress)
-                : CommonOptions.WriteAs(options.Output, nc4, path => AnomaliesStep.Run(options with { Output = path, Series = options.Series ?? (options.Regions is { Count: > 0 } ? AnomaliesStep.DefaultSeriesPath(options.Output) : null) }, progress)));
+                : CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => AnomaliesStep.Run(options with { Output = path, Format = variant, Series = options.Series ?? (options.Regions is { Count: > 0 } ? AnomaliesStep.DefaultSeriesPath(options.Output) : null) }, progress)));
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift anomalies: warning: {w}");
             if (!parse.GetValue(quiet))

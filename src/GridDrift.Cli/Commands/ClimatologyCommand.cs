@@ -12,7 +12,7 @@ public static class ClimatologyCommand
     {
         var files = CommonOptions.Files();
         var variable = CommonOptions.Variable();
-        var by = new Option<string>("--by") { Description = "slots: month, day-of-year or hour-by-month (the diurnal cycle of each month)", Required = true };
+        var by = new Option<string>("--by") { Description = "slots: month, day-of-year or hour-by-month (the diurnal cycle of each month)", Required = true }.OneOf("month", "day-of-year", "hour-by-month");
         var basePeriod = new Option<string?>("--base") { Description = "base period START/END, e.g. 1991/2020 or 2031-01-01/2033-12-31 (default: the whole record)" };
         var smooth = new Option<string?>("--smooth") { Description = "day-of-year smoothing: harmonics:N (first N annual harmonics) or window:DAYS (odd, wraps the year)" };
         var output = new Option<string>("--out") { Description = "climatology NetCDF to write", Required = true };
@@ -31,9 +31,8 @@ public static class ClimatologyCommand
             var kind = ClimatologyKinds.Parse(parse.GetValue(by)!)
                 ?? throw new BadInputException(null, null, $"--by {parse.GetValue(by)}: choose month, day-of-year or hour-by-month");
             var options = new ClimatologyOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, kind, parse.GetValue(output)!,
-                parse.GetValue(basePeriod), parse.GetValue(smooth), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("climatology", commandLine)) with { Units = parse.GetValue(units) };
-            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.WriteAs(options.Output, nc4, path => ClimatologyStep.Run(options with { Output = path }, progress)));
+                parse.GetValue(basePeriod), parse.GetValue(smooth), null, CommonOptions.CommandLine("climatology", commandLine)) with { Units = parse.GetValue(units) };
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => ClimatologyStep.Run(options with { Output = path, Format = variant }, progress)));
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift climatology: warning: {w}");
             if (!parse.GetValue(quiet))

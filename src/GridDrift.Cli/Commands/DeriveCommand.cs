@@ -29,10 +29,9 @@ public static class DeriveCommand
         command.SetAction(parse =>
         {
             var options = new DeriveOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(quantity)!, parse.GetValue(output)!, parse.GetValue(variable),
-                parse.GetValue(surface), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("derive", commandLine),
+                parse.GetValue(surface), null, CommonOptions.CommandLine("derive", commandLine),
                 parse.GetValue(temperature), parse.GetValue(pressure), parse.GetValue(units));
-            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.WriteAs(options.Output, nc4, path => DeriveStep.Run(options with { Output = path }, progress)));
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => DeriveStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift derive: {summary.Frames} frames of {summary.Variable} from {summary.Levels} levels written to {options.Output}");
             return ExitCodes.Success;

@@ -13,12 +13,12 @@ public static class EventsCommand
         var input = new Argument<string>("SERIES") { Description = "a series product: series NetCDF (time, region) or tidy Parquet table" };
         var quantity = new Option<string?>("--quantity") { Description = "the quantity to analyse (needed when the file holds several)" };
         var region = new Option<string[]>("--region") { Description = "region names to analyse (default: all)", AllowMultipleArgumentsPerToken = true };
-        var detect = new Option<string>("--detect") { Description = "detectors: robust-z,hampel,iqr,seasonal-residual,gesd (default: all)", DefaultValueFactory = _ => "robust-z,hampel,iqr,seasonal-residual,gesd" };
-        var on = new Option<string>("--on") { Description = "raw: detect on the values; residuals: on the residuals of a seasonal model", DefaultValueFactory = _ => "raw" };
-        var window = new Option<string>("--window") { Description = "moving window of the event counts, in days (e.g. 365d)", DefaultValueFactory = _ => "365d" };
-        var changepoints = new Option<string>("--changepoints") { Description = "pettitt, pelt (both PELT costs), pelt-mean, pelt-meanvar", DefaultValueFactory = _ => "pettitt,pelt" };
-        var consensus = new Option<int>("--consensus") { Description = "detectors that must agree for an event", DefaultValueFactory = _ => 2 };
-        var minSegment = new Option<int>("--min-segment") { Description = "PELT's shortest segment, in time steps", DefaultValueFactory = _ => 10 };
+        var detect = new Option<string>("--detect") { Description = "detectors: robust-z,hampel,iqr,seasonal-residual,gesd (default: all)", DefaultValueFactory = _ => "robust-z,hampel,iqr,seasonal-residual,gesd" }.ListOf(EventsStep.ParseDetector);
+        var on = new Option<string>("--on") { Description = "raw: detect on the values; residuals: on the residuals of a seasonal model", DefaultValueFactory = _ => "raw" }.OneOf("raw", "residuals");
+        var window = new Option<string>("--window") { Description = "moving window of the event counts, in days (e.g. 365d)", DefaultValueFactory = _ => "365d" }.Accepts(w => EventsStep.ParseWindowDays(w));
+        var changepoints = new Option<string>("--changepoints") { Description = "pettitt, pelt (both PELT costs), pelt-mean, pelt-mean-variance", DefaultValueFactory = _ => "pettitt,pelt" }.ListOf(EventsStep.ParseChangeMethods);
+        var consensus = new Option<int>("--consensus") { Description = "detectors that must agree for an event", DefaultValueFactory = _ => 2 }.Between(1, 5);
+        var minSegment = new Option<int>("--min-segment") { Description = "PELT's shortest segment, in time steps", DefaultValueFactory = _ => 10 }.Between(2, int.MaxValue);
         var output = new Option<string>("--out") { Description = "flags table (Parquet); OUT_counts, OUT_trends and OUT_changepoints are written beside it", Required = true };
         var json = new Option<bool>("--json") { Description = "print a JSON summary (change points and trends) on stdout" };
         var plot = new Option<string?>("--plot") { Description = "folder for the PNG figures" };
@@ -41,9 +41,7 @@ public static class EventsCommand
             {
                 throw new BadInputException(null, null, e.Message);
             }
-            string w = parse.GetValue(window)!.Trim().TrimEnd('d', 'D');
-            if (!double.TryParse(w, NumberStyles.Float, CultureInfo.InvariantCulture, out double windowDays) || windowDays <= 0)
-                throw new BadInputException(null, null, $"--window {parse.GetValue(window)}: give a number of days, e.g. 365d");
+            double windowDays = EventsStep.ParseWindowDays(parse.GetValue(window)!);
             bool residuals = parse.GetValue(on) switch
             {
                 "raw" => false,

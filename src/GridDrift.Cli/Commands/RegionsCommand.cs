@@ -15,17 +15,19 @@ public static class RegionsCommand
         var variable = new Option<string?>("--var") { Description = "the variable whose grid to use (default: the first gridded one)" };
         var radius = CommonOptions.EarthRadius();
         var format = CommonOptions.Format();
+        var deflate = CommonOptions.Deflate();
+        var shuffle = CommonOptions.Shuffle();
         var quiet = CommonOptions.Quiet();
         var command = new Command("regions", "Build region masks once for a grid (exact fractional cover of cut cells) and write them as a CF mask file, with a PNG map.\n\n" +
             "Example:\n  griddrift regions --grid cf-samples/tcwv_synthetic_2031.nc --regions global bands:30 box:tropical_pacific=-15,15,150,-90 --out mask.nc --png mask.png")
         {
-            grid, regions, output, png, variable, radius, format, quiet,
+            grid, regions, output, png, variable, radius, format, deflate, shuffle, quiet,
         };
         command.SetAction(parse =>
         {
             var options = new RegionsOptions(parse.GetValue(grid)!, parse.GetValue(regions)!, parse.GetValue(output)!, parse.GetValue(png),
-                parse.GetValue(variable), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("regions", commandLine));
-            var (g, mask) = RegionsStep.Run(options);
+                parse.GetValue(variable), parse.GetValue(radius), null, CommonOptions.CommandLine("regions", commandLine));
+            var (g, mask) = CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => RegionsStep.Run(options with { Output = path, Format = variant }));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift regions: {mask.Count} regions on a {g.Rows} × {g.Columns} {g.Kind} grid, {mask.EntryCount} cell entries, written to {options.Output}");
             return ExitCodes.Success;

@@ -12,10 +12,10 @@ public static class RegridCommand
         var files = CommonOptions.Files();
         var variable = CommonOptions.Variable();
         var to = new Option<string>("--to") { Description = "target grid: regular:D, regular:DLATxDLON, or a file whose grid is taken", Required = true };
-        var method = new Option<string>("--method") { Description = "bilinear or conservative", DefaultValueFactory = _ => "conservative" };
+        var method = new Option<string>("--method") { Description = "bilinear or conservative", DefaultValueFactory = _ => "conservative" }.OneOf("conservative", "bilinear");
         var output = new Option<string>("--out") { Description = "NetCDF to write", Required = true };
         var calendar = new Option<string?>("--calendar") { Description = "move a noleap or all_leap record onto the standard calendar by date (dates it lacks are dropped)" };
-        var resample = new Option<string?>("--resample") { Description = "means of the remapped frames over PTnH (e.g. PT3H), daily or monthly periods, with time bounds" };
+        var resample = new Option<string?>("--resample") { Description = "means of the remapped frames over PTnH (e.g. PT3H), daily or monthly periods, with time bounds" }.Accepts(r => GridDrift.Climatology.PeriodMeans.Parse(r, out _));
         var weights = new Option<string?>("--weights") { Description = "weights file: read when it exists (and matches the grids), else written after building" };
         var format = CommonOptions.Format();
         var deflate = CommonOptions.Deflate();
@@ -30,9 +30,8 @@ public static class RegridCommand
         command.SetAction(parse =>
         {
             var options = new RegridOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(to)!, parse.GetValue(method)!,
-                parse.GetValue(output)!, CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("regrid", commandLine), parse.GetValue(calendar), parse.GetValue(resample), parse.GetValue(weights)) with { Units = parse.GetValue(units) };
-            var nc4 = CommonOptions.Nc4(parse.GetValue(format), parse.GetValue(deflate), parse.GetValue(shuffle));
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.WriteAs(options.Output, nc4, path => RegridStep.Run(options with { Output = path }, progress)));
+                parse.GetValue(output)!, null, CommonOptions.CommandLine("regrid", commandLine), parse.GetValue(calendar), parse.GetValue(resample), parse.GetValue(weights)) with { Units = parse.GetValue(units) };
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => RegridStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift regrid: {summary.Frames} frames onto {summary.Target.Rows} × {summary.Target.Columns} ({summary.Weights.Column.Length} weights{(summary.WeightsReused ? ", read from " + options.Weights : "")}), {summary.Written} written to {options.Output}" + (summary.Dropped > 0 ? $"; {summary.Dropped} frames dropped (dates the target calendar lacks)" : ""));
             return ExitCodes.Success;

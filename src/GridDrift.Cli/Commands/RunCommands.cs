@@ -114,7 +114,7 @@ public static class RunCommands
     public static Command Demo(string[] commandLine)
     {
         var output = new Option<string>("--out") { Description = "folder for the record, the recipe and the products", DefaultValueFactory = _ => "griddrift-demo" };
-        var size = new Option<string>("--size") { Description = "small (4°, 6-hourly, 4 years) or default (2°, 3-hourly, 2031–2036)", DefaultValueFactory = _ => "default" };
+        var size = new Option<string>("--size") { Description = "small (4°, 6-hourly, 4 years) or default (2°, 3-hourly, 2031–2036)", DefaultValueFactory = _ => "default" }.OneOf("small", "default");
         var quiet = CommonOptions.Quiet();
         var verbose = Verbose();
         var command = new Command("demo", "Write an invented record with a regime shift in two regions and run the whole chain on it, ending in a report.\n" +

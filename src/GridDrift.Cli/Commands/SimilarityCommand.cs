@@ -19,23 +19,25 @@ public static class SimilarityCommand
         {
             Description = "metrics, comma-separated: ssim, vif, corr, rmsd, mean-abs-change, bias (default: ssim,corr,rmsd,mean-abs-change)",
             DefaultValueFactory = _ => "ssim,corr,rmsd,mean-abs-change",
-        };
-        var lag = new Option<int>("--lag") { Description = "compare each frame with the one LAG steps earlier", DefaultValueFactory = _ => 1 };
+        }.ListOf(SimilarityMetrics.Parse);
+        var lag = new Option<int>("--lag") { Description = "compare each frame with the one LAG steps earlier", DefaultValueFactory = _ => 1 }.Between(1, int.MaxValue);
         var range = new Option<string?>("--range") { Description = "fixed data range LO:HI for SSIM and VIF (default: valid_min/valid_max, else a default for the standard_name)" };
         var acrossGaps = new Option<bool>("--across-gaps") { Description = "also compare frames across gaps in the record (they are skipped and listed otherwise)" };
         var against = new Option<string?>("--against") { Description = "compare every frame with the one field in this file (same variable and grid), e.g. a climatology" };
-        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid in both frames gives NaN", DefaultValueFactory = _ => 0.5 };
+        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid in both frames gives NaN", DefaultValueFactory = _ => 0.5 }.Between(0, 1);
         var output = new Option<string>("--out") { Description = "series NetCDF to write (time, region), time stamped with the later frame, time_bnds (earlier, later)", Required = true };
         var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
         var radius = CommonOptions.EarthRadius();
         var format = CommonOptions.Format();
+        var deflate = CommonOptions.Deflate();
+        var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("similarity", "Frame-to-frame structural similarity (SSIM, VIF), correlation, RMS difference and mean absolute change per region.\n\n" +
             "Example:\n  griddrift similarity cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --metric ssim,vif,corr,rmsd,mean-abs-change --out sim.nc --table sim.parquet\n" +
             "  griddrift similarity --reference obs.nc --candidate model_on_obs_grid.nc --var tcwv --regions global --metric bias,rmsd,corr,ssim --out compare.nc")
         {
-            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, units, quiet,
+            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, deflate, shuffle, units, quiet,
         };
         command.SetAction(parse =>
         {
@@ -57,9 +59,9 @@ public static class SimilarityCommand
             if (inputs.Length == 0) throw new BadInputException(null, null, "no input files: give FILE... or --reference and --candidate");
             var options = new SimilarityOptions(InputPaths.Expand(inputs), parse.GetValue(variable)!, parse.GetValue(regions)!, metrics,
                 parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(lag), parse.GetValue(range), parse.GetValue(acrossGaps), parse.GetValue(against),
-                parse.GetValue(minValid), parse.GetValue(radius), CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("similarity", commandLine),
+                parse.GetValue(minValid), parse.GetValue(radius), null, CommonOptions.CommandLine("similarity", commandLine),
                 Reference: reference.Length > 0 ? InputPaths.Expand(reference) : null, Units: parse.GetValue(units));
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "pairs", progress => SimilarityStep.Run(options, progress));
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "pairs", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => SimilarityStep.Run(options with { Output = path, Format = variant }, progress)));
             var error = parse.InvocationConfiguration.Error;
             if (summary.CellsOutsideRange > 0)
                 error.WriteLine($"griddrift similarity: warning: {summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High} ({summary.Range.Source}); SSIM's constants assume they do not");

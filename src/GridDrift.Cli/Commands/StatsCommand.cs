@@ -17,18 +17,20 @@ public static class StatsCommand
         {
             Description = "statistics, comma-separated: mean,std,min,max,p10,p50,p90,valid (default: all)",
             DefaultValueFactory = _ => "mean,std,min,max,p10,p50,p90,valid",
-        };
-        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 };
+        }.ListOf(RegionStatistics.Parse);
+        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 }.Between(0, 1);
         var output = new Option<string>("--out") { Description = "series NetCDF to write (dimensions time, region)", Required = true };
         var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
         var radius = CommonOptions.EarthRadius();
         var format = CommonOptions.Format();
+        var deflate = CommonOptions.Deflate();
+        var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var command = new Command("stats", "Area-weighted mean, standard deviation, minimum, maximum, quantiles and valid fraction per frame and region.\n\n" +
             "Example:\n  griddrift stats cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --out s.nc --table s.parquet")
         {
-            files, variable, regions, stat, minValid, output, table, radius, format, units, quiet,
+            files, variable, regions, stat, minValid, output, table, radius, format, deflate, shuffle, units, quiet,
         };
         command.SetAction(parse =>
         {
@@ -43,8 +45,8 @@ public static class StatsCommand
             }
             var options = new StatsOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!,
                 statistics, parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(minValid), parse.GetValue(radius),
-                CommonOptions.ParseFormat(parse.GetValue(format)), CommonOptions.CommandLine("stats", commandLine)) with { Units = parse.GetValue(units) };
-            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => StatsStep.Run(options, progress));
+                null, CommonOptions.CommandLine("stats", commandLine)) with { Units = parse.GetValue(units) };
+            var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => StatsStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine(
                     $"griddrift stats: {summary.Frames} frames × {summary.Regions} regions written to {options.Output}" +

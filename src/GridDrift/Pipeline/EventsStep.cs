@@ -50,7 +50,7 @@ public static class EventsStep
 
         var flags = new TableBuilder().Text("time").Text("region").Text("quantity").Number("value").Text("detector").Number("score").Number("threshold").Flag("flagged").Integer("consensus").Flag("event");
         var counts = new TableBuilder().Text("region").Text("quantity").Text("kind").Text("period").Integer("count");
-        var trends = new TableBuilder().Text("region").Text("quantity").Text("scope").Text("start").Text("end").Integer("n").Number("mk_s").Number("mk_var_s")
+        var trends = new TableBuilder().Text("region").Text("quantity").Text("scope").Text("start").Text("end").Integer("n").Number("mk_s").Number("mk_s_variance")
             .Number("mk_z").Number("mk_p").Number("mk_z_hamed_rao").Number("mk_p_hamed_rao").Number("sen_slope_per_day").Number("sen_slope_lo").Number("sen_slope_hi").Text("units");
         var changes = new TableBuilder().Text("region").Text("quantity").Text("method").Text("time").Number("p_value").Number("mean_before").Number("mean_after")
             .Number("sen_slope_before_per_day").Number("sen_slope_after_per_day").Flag("trend_reverses");
@@ -143,6 +143,15 @@ public static class EventsStep
     static JsonNode? Number(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
 
     /// <summary>A detector by its command-line name (the inverse of <see cref="Name(Detector)"/>).</summary>
+    /// <summary>A window of days as the command line and recipes give it: 365d or 365; throws FormatException otherwise.</summary>
+    public static double ParseWindowDays(string text)
+    {
+        string days = text.Trim().TrimEnd('d', 'D');
+        if (!double.TryParse(days, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out double value) || !(value > 0) || double.IsInfinity(value))
+            throw new FormatException("give a positive number of days, e.g. 365d");
+        return value;
+    }
+
     public static Detector ParseDetector(string text) => text.Trim() switch
     {
         "robust-z" => Detector.RobustZ,
@@ -159,8 +168,8 @@ public static class EventsStep
         "pettitt" => [ChangeMethod.Pettitt],
         "pelt" => [ChangeMethod.PeltMean, ChangeMethod.PeltMeanVariance],
         "pelt-mean" => [ChangeMethod.PeltMean],
-        "pelt-meanvar" => [ChangeMethod.PeltMeanVariance],
-        var other => throw new FormatException($"unknown change-point method '{other}' (choose pettitt, pelt, pelt-mean or pelt-meanvar)"),
+        "pelt-mean-variance" => [ChangeMethod.PeltMeanVariance],
+        var other => throw new FormatException($"unknown change-point method '{other}' (choose pettitt, pelt, pelt-mean or pelt-mean-variance)"),
     };
 
     public static string Name(Detector d) => d switch
@@ -176,7 +185,7 @@ public static class EventsStep
     {
         ChangeMethod.Pettitt => "pettitt",
         ChangeMethod.PeltMean => "pelt-mean",
-        _ => "pelt-meanvar",
+        _ => "pelt-mean-variance",
     };
 
     public static string Serialize(JsonObject json) => json.ToJsonString(new JsonSerializerOptions { WriteIndented = true });

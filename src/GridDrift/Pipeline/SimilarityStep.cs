@@ -107,7 +107,7 @@ public static class SimilarityStep
             {
                 ["title"] = observed is not null ? $"Comparison of {o.Variable}: candidate {Path.GetFileName(source.Files[0])} against reference {Path.GetFileName(observed.Files[0])}"
                     : reference is null ? $"Frame-to-frame similarity of {o.Variable} per region (lag {o.Lag})" : $"Similarity of each frame of {o.Variable} to {Path.GetFileName(o.Against)}",
-                ["data_range"] = $"{range.Low.ToString("R", CultureInfo.InvariantCulture)}:{range.High.ToString("R", CultureInfo.InvariantCulture)} ({range.Source})",
+                ["dynamic_range"] = $"{range.Low.ToString("R", CultureInfo.InvariantCulture)}:{range.High.ToString("R", CultureInfo.InvariantCulture)} ({range.Source})",
                 ["lag"] = o.Lag.ToString(CultureInfo.InvariantCulture),
                 ["earth_radius_m"] = o.EarthRadius.ToString("R", CultureInfo.InvariantCulture),
                 ["min_valid"] = o.MinValid.ToString("R", CultureInfo.InvariantCulture),

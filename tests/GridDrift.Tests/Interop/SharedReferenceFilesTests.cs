@@ -79,7 +79,7 @@ public class SharedReferenceFilesTests
                 Assert.Equal(text, ours!.AsText());
             }
             else if (a.Value.EnumerateArray().FirstOrDefault().ValueKind == JsonValueKind.String)
-                Assert.Equal(a.Value.EnumerateArray().Select(e => e.GetString()), ours!.Values as string[] ?? [ours.AsText()]);
+                Assert.Equal(a.Value.EnumerateArray().Select(e => e.GetString()), ours!.Values as string[] ?? [ours.AsText()!]);
             else
                 Assert.Equal(ReferenceDump.Numbers(a.Value), ours!.AsDoubles());
         }

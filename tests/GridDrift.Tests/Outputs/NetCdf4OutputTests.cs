@@ -18,7 +18,7 @@ public class NetCdf4OutputTests
         string input = SampleFiles.Record(dir.File("in.nc"), frames: 120, nlat: 6, nlon: 8, stepHours: 24, missing: (t, c) => (t + c) % 11 == 0);
         foreach (var (format, suffix) in new[] { ("cdf2", ""), ("nc4", "4") })
         {
-            var extra = format == "nc4" ? new[] { "--format", "nc4", "--deflate", "5", "--shuffle" } : ["--format", "cdf2"];
+            var extra = format == "nc4" ? new[] { "--format", "netcdf-4", "--deflate", "5", "--shuffle" } : ["--format", "64-bit-offset"];
             var clim = CliRun.Run(["climatology", input, "--var", "tcwv", "--by", "month", "--out", dir.File($"clim{suffix}.nc"), "--quiet", .. extra]);
             Assert.True(clim.ExitCode == 0, clim.Stderr);
             var anomalies = CliRun.Run(["anomalies", input, "--var", "tcwv", "--climatology", dir.File("clim.nc"), "--out", dir.File($"anom{suffix}.nc"), "--quiet", .. extra]);
@@ -61,7 +61,7 @@ public class NetCdf4OutputTests
         using var dir = new TempFolder();
         string input = SampleFiles.Record(dir.File("in.nc"), frames: 10, stepHours: 24);
         var info = new System.Diagnostics.ProcessStartInfo("dotnet") { UseShellExecute = false, RedirectStandardError = true, RedirectStandardOutput = true };
-        foreach (var a in new[] { Path.Combine(AppContext.BaseDirectory, "griddrift.dll"), "climatology", input, "--var", "tcwv", "--by", "month", "--out", dir.File("c.nc"), "--format", "nc4" })
+        foreach (var a in new[] { Path.Combine(AppContext.BaseDirectory, "griddrift.dll"), "climatology", input, "--var", "tcwv", "--by", "month", "--out", dir.File("c.nc"), "--format", "netcdf-4" })
             info.ArgumentList.Add(a);
         info.Environment["GRIDDRIFT_LIBNETCDF"] = dir.File("no-such-libnetcdf.so");
         using var p = System.Diagnostics.Process.Start(info)!;
@@ -78,7 +78,7 @@ public class NetCdf4OutputTests
     {
         using var dir = new TempFolder();
         string input = SampleFiles.Record(dir.File("in.nc"), frames: 10, stepHours: 24);
-        var outcome = CliRun.Run("climatology", input, "--var", "tcwv", "--by", "month", "--out", dir.File("c.nc"), "--format", "nc4", "--deflate", "12");
+        var outcome = CliRun.Run("climatology", input, "--var", "tcwv", "--by", "month", "--out", dir.File("c.nc"), "--format", "netcdf-4", "--deflate", "12");
         Assert.Equal(1, outcome.ExitCode); // a usage error, as DESIGN.md numbers them
         Assert.Contains("--deflate 12", outcome.Stderr);
         Assert.False(File.Exists(dir.File("c.nc")));

@@ -20,7 +20,7 @@ public static unsafe class Nc4Converter
 {
     public static void Convert(string classicPath, string nc4Path, Nc4Options options)
     {
-        if (!NetCdfLibrary.TryLoad(out var why)) throw new BadInputException(nc4Path, null, "--format nc4: " + why);
+        if (!NetCdfLibrary.TryLoad(out var why)) throw new BadInputException(nc4Path, null, "--format netcdf-4: " + why);
         if (options.Deflate is < 0 or > 9) throw new BadInputException(null, null, $"--deflate {options.Deflate}: choose 1 (fast) to 9 (small), or 0 for none");
         string final = Path.GetFullPath(nc4Path);
         string temp = Path.Combine(Path.GetDirectoryName(final)!, "." + Path.GetFileName(final) + "." + Guid.NewGuid().ToString("N")[..8] + ".part");
