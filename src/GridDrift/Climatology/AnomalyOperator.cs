@@ -35,7 +35,7 @@ public sealed class AnomalyOperator : IFrameOperator<AnomalyOperator.Worker>
 
     /// <param name="mean">per slot and cell, slot-major (the climatology's mean)</param>
     /// <param name="std">per slot and cell (the climatology's standard deviation)</param>
-    public AnomalyOperator(AnomalyKind kind, SlotScheme scheme, float[] mean, float[] std, int cells, RegionMask? mask, SeparablePlan? plan, double minValid,
+    public AnomalyOperator(AnomalyKind kind, SlotScheme scheme, float[] mean, float[] std, int cells, RegionSet? regions, double minValid,
         IReadOnlyList<CfTime> times, IFieldSink? fields, ISeriesSink? series)
     {
         _kind = kind;
@@ -43,14 +43,14 @@ public sealed class AnomalyOperator : IFrameOperator<AnomalyOperator.Worker>
         _mean = mean;
         _std = std;
         _cells = cells;
-        _mask = mask;
-        _plan = plan;
+        _mask = regions?.Mask;
+        _plan = regions?.Separable;
         _minValid = minValid;
         _times = times;
         _fields = fields;
         _series = series;
-        _values = new double[mask?.Count ?? 0];
-        _valid = new double[mask?.Count ?? 0];
+        _values = new double[_mask?.Count ?? 0];
+        _valid = new double[_mask?.Count ?? 0];
     }
 
     /// <summary>Frames that fell in no slot of the climatology.</summary>

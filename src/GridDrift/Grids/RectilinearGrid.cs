@@ -21,7 +21,7 @@ public static class RectilinearGrid
         var clon = new double[ny * nx];
         for (int j = 0; j < ny; j++)
         {
-            double band = Math.Abs(Math.Sin(latEdges[j + 1] * Math.PI / 180) - Math.Sin(latEdges[j] * Math.PI / 180));
+            double band = Math.Abs(Sphere.ZoneFactor(latEdges[j], latEdges[j + 1]));
             for (int i = 0; i < nx; i++)
             {
                 int cell = j * nx + i;

@@ -14,9 +14,15 @@ public static class Sphere
 
     const double Deg = Math.PI / 180;
 
+    /// <summary>
+    /// sin φ₂ − sin φ₁: the latitude factor of every latitude-longitude cell's area, the one place
+    /// it is computed (a rectangle's area is R² × Δλ in radians × this).
+    /// </summary>
+    public static double ZoneFactor(double southDegrees, double northDegrees) => Math.Sin(northDegrees * Math.PI / 180) - Math.Sin(southDegrees * Math.PI / 180);
+
     /// <summary>Area of the rectangle between two latitudes and spanning <paramref name="deltaLonDegrees"/> of longitude.</summary>
     public static double RectangleArea(double lat1, double lat2, double deltaLonDegrees, double radius) =>
-        radius * radius * Math.Abs(deltaLonDegrees) * Deg * Math.Abs(Math.Sin(lat2 * Deg) - Math.Sin(lat1 * Deg));
+        radius * radius * Math.Abs(deltaLonDegrees) * Deg * Math.Abs(ZoneFactor(lat1, lat2));
 
     public static (double X, double Y, double Z) UnitVector(double latDegrees, double lonDegrees)
     {

@@ -71,8 +71,7 @@ public static class AnomaliesStep
             ["climatology_base_period"] = clim.BasePeriod,
         };
 
-        RegionMask? mask = null;
-        SeparablePlan? plan = null;
+        RegionSet? regions = null;
         SeriesProducts? series = null;
         string? seriesPath = null;
         if (o.Regions is { Count: > 0 })
@@ -81,8 +80,8 @@ public static class AnomaliesStep
             if (grid.CellCount != source.FrameLength)
                 throw new BadInputException(source.Files[0], o.Variable, "frames with dimensions other than time, latitude and longitude cannot be reduced to regions");
             var shapes = RegionSpecs.ParseInput(o.Regions);
-            mask = RegionMaskBuilder.Build(grid, shapes);
-            plan = SeparablePlan.TryBuild(grid, shapes);
+            regions = RegionSet.Build(grid, shapes);
+            var mask = regions.Mask;
             seriesPath = o.Series ?? (o.Output is { } output ? DefaultSeriesPath(output)
                 : throw new ArgumentException("anomalies without a field file need a series path"));
             var calendarAttribute0 = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
@@ -113,7 +112,7 @@ public static class AnomaliesStep
             }
             var slice = o.Slice ?? FrameSlice.Whole(source.FrameCount);
             var fields = w is null ? null : new FieldRecords(w, time!, data!, source.TimeUnits, source.FrameLength);
-            var op = new AnomalyOperator(o.Kind, clim.Scheme, clim.Mean, clim.Std, clim.Cells, mask, plan, o.MinValid, source.Times, fields, series);
+            var op = new AnomalyOperator(o.Kind, clim.Scheme, clim.Mean, clim.Std, clim.Cells, regions, o.MinValid, source.Times, fields, series);
             FrameEngine.Run(source, Enumerable.Range(slice.First, slice.Count).ToArray(), op, new EngineSettings(o.Workers, progress));
             int noSlot = op.FramesWithoutSlot;
             if (noSlot > 0) warnings.Add($"{noSlot} frames fall in no slot of the climatology (a time of day it does not hold): their anomalies are missing");

@@ -59,7 +59,7 @@ public static class ClimatologyStep
             catch (FormatException e) { throw new BadInputException(null, null, e.Message); }
             if (o.Kind != ClimatologyKind.DayOfYear) throw new BadInputException(null, null, $"--smooth applies to day-of-year climatologies, not to {o.Kind.Name()}");
         }
-        var basePeriod = BasePeriod(source, o.Base);
+        var basePeriod = BasePeriods.Resolve(source, o.Base);
         var used = Enumerable.Range(0, source.FrameCount).Where(i => basePeriod.Contains(source.Times[i])).ToArray();
         if (used.Length == 0)
             throw new BadInputException(source.Files[0], o.Variable, $"no time step falls in the base period {basePeriod.ToIsoString()} (the record runs {source.Times[0]} … {source.Times[^1]})");
@@ -153,25 +153,4 @@ public static class ClimatologyStep
         _ => $"12 months x {scheme.TimesOfDay.Count} times of day",
     };
 
-    /// <summary>--base, else the whole record: its first time up to one step past its last.</summary>
-    static TimePeriod BasePeriod(FrameSource source, string? text)
-    {
-        if (text is not null)
-            try { return TimePeriod.Parse(text, source.Calendar); }
-            catch (FormatException e) { throw new BadInputException(null, null, "--base " + e.Message); }
-        var last = source.Times[^1];
-        var end = source.Step switch
-        {
-            { IsCalendarMonths: true } s => NextMonths(last, s.Months),
-            { Micros: > 0 } s => last.AddMicros(s.Micros),
-            _ => last.AddMicros(1),
-        };
-        return new TimePeriod(source.Times[0], end);
-    }
-
-    static CfTime NextMonths(CfTime t, int months)
-    {
-        long m = t.Month - 1 + months;
-        return CfTime.Of(t.Calendar, t.Year + m / 12, (int)(m % 12) + 1, 1);
-    }
 }

@@ -56,17 +56,11 @@ public static class SimilarityStep
         if (grid.ColumnsFirst)
             throw new BadInputException(source.Files[0], o.Variable, "longitude comes before latitude in this variable's dimensions; similarity needs (time, lat, lon) order");
         var variable = source.Template.RequireVariable(o.Variable);
-        var range = DataRange.Resolve(o.Range, variable, source.Files[0]);
-        if (o.Units is not null && o.Range is null)
-        {
-            // a range from the file's attributes or the standard_name defaults is in the file's units
-            var c = GridDrift.Conventions.Units.UnitConverter.Between(variable.Attributes.Text("units") ?? "1", source.Units);
-            range = range with { Low = c.Convert(range.Low), High = c.Convert(range.High) };
-        }
+        var range = DataRange.Resolve(o.Range, variable, source.Files[0], source.Units);
         var shapes = RegionSpecs.ParseInput(o.Regions);
-        var mask = RegionMaskBuilder.Build(grid, shapes);
-        var plan = SeparablePlan.TryBuild(grid, shapes);
-        bool periodic = grid.IsRectilinear && HorizontalGrid.FromAxes(Latitudes(grid), Longitudes(grid)).IsGlobalInLongitude;
+        var regions = RegionSet.Build(grid, shapes);
+        var mask = regions.Mask;
+        bool periodic = Ssim.PeriodicFor(grid);
 
         float[]? reference = o.Against is null ? null : ReadReference(o.Against, o.Variable, grid);
         using var observed = o.Reference is { Count: > 0 } ? FrameSource.Open(o.Reference, o.Variable) : null;
@@ -97,7 +91,7 @@ public static class SimilarityStep
         }
 
         string units = source.Units;
-        var quantities = o.Metrics.Select(m => Quantity(m, o.Variable, units)).ToList();
+        var quantities = o.Metrics.Select(m => m.Quantity(o.Variable, units)).ToList();
         // a shard reads its slice and the lag frames before it: its provenance names those files only
         var read = o.Slice is { } owned ? source.FilesOf(owned.First - (reference is null && observed is null ? o.Lag : 0), owned.End) : source.Files;
         var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea, quantities, source.TimeUnits,
@@ -118,15 +112,13 @@ public static class SimilarityStep
             HasTimeBounds: reference is null && observed is null);
 
         using var products = new SeriesProducts(o.Output, o.Table, layout, o.Format);
-        var op = new SimilarityOperator(grid, mask, plan, range, periodic, o.Metrics, o.MinValid, source.Times, observed is null ? source.Times : null, products);
+        var op = new SimilarityOperator(regions, range, periodic, o.Metrics, o.MinValid, source.Times, observed is null ? source.Times : null, products);
         FrameEngine.RunPairs(observed ?? source, source, pairs, op, new EngineSettings(o.Workers, progress), reference);
         long outside = op.CellsOutsideRange;
         products.Complete();
         return new SimilaritySummary(pairs.Count, skipped, range, outside, mask.Count);
     }
 
-    static double[] Latitudes(Grid grid) => Enumerable.Range(0, grid.Rows).Select(j => grid.CenterLat[j * grid.Columns]).ToArray();
-    static double[] Longitudes(Grid grid) => grid.CenterLon.AsSpan(0, grid.Columns).ToArray();
 
     static float[] ReadReference(string path, string variable, Grid grid)
     {
@@ -143,14 +135,4 @@ public static class SimilarityStep
         GridDrift.Conventions.Values.ValueCodec.For(v).Decode(raw, field);
         return field;
     }
-
-    static SeriesQuantity Quantity(SimilarityMetric m, string variable, string units) => m switch
-    {
-        SimilarityMetric.Ssim => new("ssim", $"area-weighted mean structural similarity of {variable} between the paired frames", "1", "area: mean"),
-        SimilarityMetric.Vif => new("vif", $"visual information fidelity of {variable} (later frame against earlier) on the region's bounding box", "1", ""),
-        SimilarityMetric.Corr => new("corr", $"area-weighted Pearson correlation of {variable} between the paired frames", "1", ""),
-        SimilarityMetric.Rmsd => new("rmsd", $"area-weighted root-mean-square difference of {variable} between the paired frames", units, ""),
-        SimilarityMetric.Bias => new("bias", $"area-weighted mean difference of {variable}, later (candidate) minus earlier (reference)", units, "area: mean"),
-        _ => new("mean_abs_change", $"area-weighted mean absolute change of {variable} between the paired frames", units, "area: mean"),
-    };
 }

@@ -76,7 +76,7 @@ public static class RegionMaskBuilder
         {
             double lo = Math.Min(latEdges[j], latEdges[j + 1]), hi = Math.Max(latEdges[j], latEdges[j + 1]);
             double s = Math.Max(lo, box.South), n = Math.Min(hi, box.North);
-            rowFactor[j] = n > s ? Math.Sin(n * Math.PI / 180) - Math.Sin(s * Math.PI / 180) : 0;
+            rowFactor[j] = n > s ? Sphere.ZoneFactor(s, n) : 0;
         }
         var columnOverlap = new double[grid.Columns];
         double east = box.EastUnwrapped;
@@ -150,12 +150,12 @@ public static class RegionMaskBuilder
     static double SampleRectangle(Grid grid, int j, int i, int k, Func<double, double, bool> inside)
     {
         double la = grid.LatEdges![j], lb = grid.LatEdges[j + 1], wa = grid.LonEdges![i], wb = grid.LonEdges[i + 1];
-        double total = Math.Abs(Math.Sin(lb * Math.PI / 180) - Math.Sin(la * Math.PI / 180));
+        double total = Math.Abs(Sphere.ZoneFactor(la, lb));
         double covered = 0;
         for (int p = 0; p < k; p++)
         {
             double l0 = la + (lb - la) * p / k, l1 = la + (lb - la) * (p + 1) / k;
-            double weight = Math.Abs(Math.Sin(l1 * Math.PI / 180) - Math.Sin(l0 * Math.PI / 180)) / total / k;
+            double weight = Math.Abs(Sphere.ZoneFactor(l0, l1)) / total / k;
             double lat = 0.5 * (l0 + l1);
             for (int q = 0; q < k; q++)
                 if (inside(wa + (wb - wa) * (q + 0.5) / k, lat)) covered += weight;

@@ -12,6 +12,9 @@ public sealed record Provenance(string Command, IReadOnlyList<string> Inputs, IR
     public static Provenance For(string command, IReadOnlyList<string> inputs) =>
         new(command, inputs, inputs.Select(ChecksumCache.Sha256).ToList(), DateTime.UtcNow);
 
+    /// <summary>Provenance whose checksums are computed only when a product is written (a result kept in memory needs none).</summary>
+    public static Provenance Pending(string command, IReadOnlyList<string> inputs) => new(command, inputs, [], DateTime.UtcNow);
+
     /// <summary>A CF history line: ISO 8601 UTC time, then the command (CF §2.6.2).</summary>
     public string HistoryLine => $"{CreatedUtc:yyyy-MM-ddTHH:mm:ssZ} {Command}";
 

@@ -24,6 +24,19 @@ public sealed record DataRange(double Low, double High, string Source)
         ["air_temperature"] = (180, 330),
     };
 
+    /// <summary>
+    /// <see cref="Resolve(string?, NcVariable, string)"/> for frames delivered in <paramref name="deliveredUnits"/>:
+    /// a range from the file's attributes or the standard_name defaults is in the file's units and is converted.
+    /// </summary>
+    public static DataRange Resolve(string? option, NcVariable variable, string path, string deliveredUnits)
+    {
+        var range = Resolve(option, variable, path);
+        string fileUnits = variable.Attributes.Text("units") ?? "1";
+        if (option is not null || fileUnits == deliveredUnits) return range;
+        var c = GridDrift.Conventions.Units.UnitConverter.Between(fileUnits, deliveredUnits);
+        return range with { Low = c.Convert(range.Low), High = c.Convert(range.High) };
+    }
+
     public static DataRange Resolve(string? option, NcVariable variable, string path)
     {
         if (option is not null)

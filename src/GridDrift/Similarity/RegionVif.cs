@@ -1,3 +1,4 @@
+using GridDrift.Regions;
 namespace GridDrift.Similarity;
 
 /// <summary>

@@ -2,6 +2,7 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using GridDrift.Statistics;
+using GridDrift.Regions;
 
 namespace GridDrift.Similarity;
 

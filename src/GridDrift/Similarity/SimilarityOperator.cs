@@ -43,17 +43,17 @@ public sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Worker
     }
 
     /// <param name="earlierTimes">the earlier frames' times, stamped beside the later one's (frame-to-frame pairs); null for comparisons</param>
-    public SimilarityOperator(Grid grid, RegionMask mask, SeparablePlan? plan, DataRange range, bool periodic, IReadOnlyList<SimilarityMetric> metrics, double minValid,
+    public SimilarityOperator(RegionSet regions, DataRange range, bool periodic, IReadOnlyList<SimilarityMetric> metrics, double minValid,
         IReadOnlyList<CfTime> laterTimes, IReadOnlyList<CfTime>? earlierTimes, ISeriesSink sink)
     {
-        _grid = grid;
-        _mask = mask;
-        _plan = plan;
+        _grid = regions.Grid;
+        _mask = regions.Mask;
+        _plan = regions.Separable;
         _range = range;
         _periodic = periodic;
         _metrics = metrics;
         _minValid = minValid;
-        _boxes = metrics.Contains(SimilarityMetric.Vif) ? RegionBox.Of(grid, mask) : [];
+        _boxes = metrics.Contains(SimilarityMetric.Vif) ? regions.Boxes : [];
         _laterTimes = laterTimes;
         _earlierTimes = earlierTimes;
         _sink = sink;

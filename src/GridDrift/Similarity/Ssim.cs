@@ -1,3 +1,4 @@
+using GridDrift.Grids;
 namespace GridDrift.Similarity;
 
 /// <summary>
@@ -38,6 +39,12 @@ public sealed class Ssim
     readonly float[] _kernel;
     readonly int[] _cached;         // source row held by each ring slot
     readonly int[] _sources;
+
+    /// <summary>Whether SSIM's windows wrap around in longitude: a latitude-longitude grid whose columns go round the globe.</summary>
+    public static bool PeriodicFor(Grid grid) =>
+        grid.IsRectilinear && HorizontalGrid.FromAxes(
+            Enumerable.Range(0, grid.Rows).Select(j => grid.CenterLat[j * grid.Columns]).ToArray(),
+            grid.CenterLon.AsSpan(0, grid.Columns).ToArray()).IsGlobalInLongitude;
 
     public Ssim(int rows, int columns, bool periodicX, double rangeLow, double rangeHigh)
     {

@@ -1,3 +1,5 @@
+using GridDrift.Results;
+
 namespace GridDrift.Statistics;
 
 /// <summary>The per-region statistics of `griddrift stats`.</summary>
@@ -41,5 +43,19 @@ public static class RegionStatistics
         RegionStatistic.P50 => 0.50,
         RegionStatistic.P90 => 0.90,
         _ => null,
+    };
+
+    /// <summary>The series quantity a statistic becomes: its variable name, long name, units and CF cell_methods.</summary>
+    public static SeriesQuantity Quantity(this RegionStatistic s, string variable, string units) => s switch
+    {
+        RegionStatistic.Mean => new("mean", $"area-weighted mean of {variable}", units, "area: mean"),
+        RegionStatistic.Std => new("std", $"area-weighted standard deviation of {variable}", units, "area: standard_deviation"),
+        RegionStatistic.Min => new("min", $"minimum of {variable} over the region", units, "area: minimum"),
+        RegionStatistic.Max => new("max", $"maximum of {variable} over the region", units, "area: maximum"),
+        RegionStatistic.P50 => new("p50", $"area-weighted median of {variable}", units, "area: median"),
+        // CF cell_methods has no percentile method: the long name says what it is.
+        RegionStatistic.P10 => new("p10", $"area-weighted 10th percentile of {variable}", units, ""),
+        RegionStatistic.P90 => new("p90", $"area-weighted 90th percentile of {variable}", units, ""),
+        _ => throw new ArgumentOutOfRangeException(nameof(s)),
     };
 }

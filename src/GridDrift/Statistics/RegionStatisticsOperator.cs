@@ -28,17 +28,17 @@ public sealed class RegionStatisticsOperator : IFrameOperator<RegionStatisticsOp
     }
 
     /// <param name="statistics">the quantities of the sink, in order (the valid fraction always goes to the sink's own column)</param>
-    public RegionStatisticsOperator(RegionMask mask, SeparablePlan? plan, IReadOnlyList<RegionStatistic> statistics, double minValid, IReadOnlyList<CfTime> times, ISeriesSink sink)
+    public RegionStatisticsOperator(RegionSet regions, IReadOnlyList<RegionStatistic> statistics, double minValid, IReadOnlyList<CfTime> times, ISeriesSink sink)
     {
-        _mask = mask;
-        _plan = plan;
+        _mask = regions.Mask;
+        _plan = regions.Separable;
         _withValid = statistics.Where(s => s != RegionStatistic.Valid).Append(RegionStatistic.Valid).ToArray();
         _quantities = _withValid.Length - 1;
         _minValid = minValid;
         _times = times;
         _sink = sink;
-        _values = new double[mask.Count * _quantities];
-        _valid = new double[mask.Count];
+        _values = new double[_mask.Count * _quantities];
+        _valid = new double[_mask.Count];
     }
 
     /// <summary>Region-frames left out because too little of the region held data.</summary>

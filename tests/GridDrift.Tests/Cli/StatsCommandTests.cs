@@ -37,6 +37,6 @@ public class StatsCommandTests
 
         using var input = DatasetFiles.Open(Sample(sample));
         var axes = GridDrift.Conventions.Coordinates.VariableAxes.Discover(input, input.RequireVariable(variable));
-        Assert.Equal(kind, GridDrift.Conventions.Coordinates.GridReader.Read(input, axes).Kind);
+        Assert.Equal(kind, GridDrift.Grids.GridReader.Read(input, axes).Kind);
     }
 }

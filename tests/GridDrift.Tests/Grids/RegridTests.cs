@@ -59,7 +59,7 @@ public class RegridTests
         // so the weights of each source cell sum to its area and the integral is kept (1e-12)
         using var reader = GridDrift.Formats.DatasetFiles.Open(SharedData.Sample("q_curvilinear_360day.nc"));
         var axes = GridDrift.Conventions.Coordinates.VariableAxes.Discover(reader, reader.RequireVariable("huss"));
-        var source = GridDrift.Conventions.Coordinates.GridReader.Read(reader, axes);
+        var source = GridDrift.Grids.GridReader.Read(reader, axes);
         var target = Regular(5);
         var w = ConservativeRemap.Build(source, target);
         var rng = new Random(4);

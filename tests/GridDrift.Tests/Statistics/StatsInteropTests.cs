@@ -3,6 +3,7 @@ using GridDrift.Formats;
 using GridDrift.Pipeline;
 using GridDrift.Statistics;
 using GridDrift.Tests.Support;
+using GridDrift.Grids;
 
 namespace GridDrift.Tests.Statistics;
 
@@ -62,7 +63,7 @@ public class StatsInteropTests
         ExternalTools.RunPython("make_stats_fixture.py", input, "NETCDF3_64BIT_OFFSET");
         var reference = JsonDocument.Parse(ExternalTools.RunPython("stats_reference.py", input, "tcwv", "30", Summary.Radius)).RootElement;
         using var source = GridDrift.Frames.FrameSource.Open([input], "tcwv");
-        var grid = GridDrift.Conventions.Coordinates.GridReader.Read(source.Template, source.Axes);
+        var grid = GridDrift.Grids.GridReader.Read(source.Template, source.Axes);
         var shapes = GridDrift.Regions.RegionSpecs.Parse(["global", "bands:30"]);
         var mask = GridDrift.Regions.RegionMaskBuilder.Build(grid, shapes);
         var reducer = new RegionReducer(mask, RegionStatistics.All);

@@ -32,7 +32,7 @@ public static class ConservativeRemap
             {
                 double s0 = Math.Min(source.LatEdges![js], source.LatEdges[js + 1]), s1 = Math.Max(source.LatEdges[js], source.LatEdges[js + 1]);
                 double lo = Math.Max(t0, s0), hi = Math.Min(t1, s1);
-                if (hi > lo) rows[jt].Add((js, Math.Sin(hi * Math.PI / 180) - Math.Sin(lo * Math.PI / 180)));
+                if (hi > lo) rows[jt].Add((js, Sphere.ZoneFactor(lo, hi)));
             }
         }
         var columns = new List<(int Column, double Degrees)>[target.Columns];

@@ -1,7 +1,6 @@
 using GridDrift.Grids;
-using GridDrift.Regions;
 
-namespace GridDrift.Statistics;
+namespace GridDrift.Regions;
 
 /// <summary>
 /// The fast path for latitude-longitude boxes (global, bands, tiles, boxes) on rectilinear grids,
@@ -78,7 +77,7 @@ public sealed class SeparablePlan
             {
                 double lo = Math.Min(lat[j], lat[j + 1]), hi = Math.Max(lat[j], lat[j + 1]);
                 double s = Math.Max(lo, south), n = Math.Min(hi, north);
-                factor[j] = n > s ? Math.Sin(n * Math.PI / 180) - Math.Sin(s * Math.PI / 180) : 0;
+                factor[j] = n > s ? Sphere.ZoneFactor(s, n) : 0;
             }
             int firstRow = Array.FindIndex(factor, f => f > 0), lastRow = Array.FindLastIndex(factor, f => f > 0);
             if (firstRow < 0) { firstRow = 0; lastRow = -1; }

@@ -1,7 +1,7 @@
 using GridDrift.Formats;
-using GridDrift.Grids;
+using GridDrift.Conventions.Coordinates;
 
-namespace GridDrift.Conventions.Coordinates;
+namespace GridDrift.Grids;
 
 /// <summary>
 /// Builds the horizontal grid of a data variable from its CF coordinates: 1-D latitude and

@@ -1,7 +1,6 @@
 using GridDrift.Grids;
-using GridDrift.Regions;
 
-namespace GridDrift.Similarity;
+namespace GridDrift.Regions;
 
 /// <summary>
 /// The bounding index box of each region's cells (rows and columns of the grid), on which VIF is
