@@ -1,9 +1,10 @@
 using System.Diagnostics;
 using System.Globalization;
-using GridDrift.Climatology;
+using GridDrift.Operators.Climatology;
 using GridDrift.Formats;
 using GridDrift.Formats.Classic;
 using GridDrift.Pipeline;
+using GridDrift.Workflows;
 
 namespace GridDrift.Benchmarks;
 

@@ -1,13 +1,14 @@
 using System.Diagnostics;
 using System.Globalization;
-using GridDrift.Climatology;
+using GridDrift.Operators.Climatology;
 using GridDrift.Formats;
 using GridDrift.Formats.Classic;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
-using GridDrift.Similarity;
-using GridDrift.Statistics;
+using GridDrift.Operators.Similarity;
+using GridDrift.Operators.Statistics;
 using GridDrift.Results;
+using GridDrift.Workflows;
 
 namespace GridDrift.Benchmarks;
 

@@ -3,7 +3,8 @@ using System.Globalization;
 using GridDrift.Formats;
 using GridDrift.Formats.Classic;
 using GridDrift.Pipeline;
-using GridDrift.Similarity;
+using GridDrift.Operators.Similarity;
+using GridDrift.Workflows;
 
 namespace GridDrift.Benchmarks;
 

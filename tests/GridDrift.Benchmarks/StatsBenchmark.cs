@@ -2,7 +2,7 @@ using System.Diagnostics;
 using System.Globalization;
 using GridDrift.Grids;
 using GridDrift.Regions;
-using GridDrift.Statistics;
+using GridDrift.Operators.Statistics;
 
 namespace GridDrift.Benchmarks;
 

@@ -1,7 +1,8 @@
 using System.CommandLine;
-using GridDrift.Climatology;
+using GridDrift.Operators.Climatology;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 

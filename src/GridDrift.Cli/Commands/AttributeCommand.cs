@@ -1,5 +1,6 @@
 using System.CommandLine;
 using GridDrift.Pipeline;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 

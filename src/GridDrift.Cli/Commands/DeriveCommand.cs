@@ -1,6 +1,7 @@
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 

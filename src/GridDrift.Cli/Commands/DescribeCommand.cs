@@ -2,6 +2,7 @@ using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Outputs.Description;
 using GridDrift.Pipeline;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 

@@ -2,6 +2,7 @@ using System.CommandLine;
 using System.Globalization;
 using GridDrift.Analysis;
 using GridDrift.Pipeline;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 

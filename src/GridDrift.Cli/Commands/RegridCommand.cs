@@ -1,6 +1,8 @@
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
+using GridDrift.Operators.Resampling;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 
@@ -15,7 +17,7 @@ public static class RegridCommand
         var method = new Option<string>("--method") { Description = "bilinear or conservative", DefaultValueFactory = _ => "conservative" }.OneOf("conservative", "bilinear");
         var output = new Option<string>("--out") { Description = "NetCDF to write", Required = true };
         var calendar = new Option<string?>("--calendar") { Description = "move a noleap or all_leap record onto the standard calendar by date (dates it lacks are dropped)" };
-        var resample = new Option<string?>("--resample") { Description = "means of the remapped frames over PTnH (e.g. PT3H), daily or monthly periods, with time bounds" }.Accepts(r => GridDrift.Climatology.PeriodMeans.Parse(r, out _));
+        var resample = new Option<string?>("--resample") { Description = "means of the remapped frames over PTnH (e.g. PT3H), daily or monthly periods, with time bounds" }.Accepts(r => PeriodMeans.Parse(r, out _));
         var weights = new Option<string?>("--weights") { Description = "weights file: read when it exists (and matches the grids), else written after building" };
         var format = CommonOptions.Format();
         var deflate = CommonOptions.Deflate();

@@ -1,7 +1,8 @@
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
-using GridDrift.Similarity;
+using GridDrift.Operators.Similarity;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 

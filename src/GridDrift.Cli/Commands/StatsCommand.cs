@@ -1,7 +1,8 @@
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
-using GridDrift.Statistics;
+using GridDrift.Operators.Statistics;
+using GridDrift.Workflows;
 
 namespace GridDrift.Cli.Commands;
 

@@ -1,3 +1,4 @@
+using GridDrift.Conventions.Time;
 namespace GridDrift.Analysis;
 
 public sealed record RegionImportance(int Region, double Importance, double Spread);
@@ -91,5 +92,16 @@ public static class Attribution
             for (int k = 0; k < iceRows.Length; k++) ice[k, g] = model.Predict(work, iceRows[k]);
         }
         return (grid, pd, ice);
+    }
+
+    /// <summary>Ranks of the regions (1 = most important) by their mean absolute Shapley value over the rows in <paramref name="period"/>.</summary>
+    public static int[] RankByShapley(double[,] shapley, CfTime[] times, TimePeriod period, int regions)
+    {
+        var rows = Enumerable.Range(0, times.Length).Where(i => period.Contains(times[i])).ToArray();
+        var score = Enumerable.Range(0, regions).Select(j => rows.Length == 0 ? 0 : rows.Average(i => Math.Abs(shapley[i, j]))).ToArray();
+        var order = Enumerable.Range(0, regions).OrderByDescending(j => score[j]).ToArray();
+        var rank = new int[regions];
+        for (int k = 0; k < regions; k++) rank[order[k]] = k + 1;
+        return rank;
     }
 }

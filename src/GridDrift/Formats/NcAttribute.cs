@@ -26,8 +26,6 @@ public sealed class NcAttribute
     public static NcAttribute Of(string name, params int[] values) => new(name, NcType.Int, values);
     public static NcAttribute Of(string name, params short[] values) => new(name, NcType.Short, values);
 
-    public bool IsText => Type is NcType.Char or NcType.String;
-
     public int Count => Values switch
     {
         string => 1,

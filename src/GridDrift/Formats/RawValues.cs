@@ -42,24 +42,6 @@ public static class RawValues
         }
     }
 
-    public static void ToSingle(NcType type, ReadOnlySpan<byte> raw, Span<float> destination)
-    {
-        switch (type)
-        {
-            case NcType.Float: MemoryMarshal.Cast<byte, float>(raw).CopyTo(destination); break;
-            case NcType.Double: TensorPrimitives.ConvertTruncating<double, float>(MemoryMarshal.Cast<byte, double>(raw), destination); break;
-            case NcType.Short: TensorPrimitives.ConvertChecked<short, float>(MemoryMarshal.Cast<byte, short>(raw), destination); break;
-            case NcType.Int: TensorPrimitives.ConvertTruncating<int, float>(MemoryMarshal.Cast<byte, int>(raw), destination); break;
-            case NcType.Byte: TensorPrimitives.ConvertChecked<sbyte, float>(MemoryMarshal.Cast<byte, sbyte>(raw), destination); break;
-            case NcType.Char:
-            case NcType.UByte: TensorPrimitives.ConvertChecked<byte, float>(raw, destination); break;
-            case NcType.UShort: TensorPrimitives.ConvertChecked<ushort, float>(MemoryMarshal.Cast<byte, ushort>(raw), destination); break;
-            case NcType.UInt: TensorPrimitives.ConvertTruncating<uint, float>(MemoryMarshal.Cast<byte, uint>(raw), destination); break;
-            case NcType.Int64: TensorPrimitives.ConvertTruncating<long, float>(MemoryMarshal.Cast<byte, long>(raw), destination); break;
-            case NcType.UInt64: TensorPrimitives.ConvertTruncating<ulong, float>(MemoryMarshal.Cast<byte, ulong>(raw), destination); break;
-            default: throw new ArgumentOutOfRangeException(nameof(type), type, "not a numeric type");
-        }
-    }
 
     /// <summary>Swaps every element of <paramref name="data"/> between big- and little-endian, in place.</summary>
     public static void SwapInPlace(Span<byte> data, int elementSize)

@@ -1,10 +1,11 @@
 using System.Globalization;
 using System.Text.Json;
 using System.Text.Json.Nodes;
-using GridDrift.Climatology;
+using GridDrift.Operators.Climatology;
 using GridDrift.Frames;
-using GridDrift.Similarity;
-using GridDrift.Statistics;
+using GridDrift.Operators.Similarity;
+using GridDrift.Operators.Statistics;
+using GridDrift.Workflows;
 
 namespace GridDrift.Pipeline;
 

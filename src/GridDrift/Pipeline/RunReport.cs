@@ -60,10 +60,9 @@ public static class RunReport
             // the size of each region's main (Pettitt) change in units of the series' short-term noise
             var noise = trends.ToDictionary(t => (string)t["region"]!, t => t["noise_sd"]?.GetValue<double>() ?? double.NaN);
             string? aggregate = (string?)attribute?["target"];
-            var main = changes.Where(c => (string)c["method"]! == "pettitt" && (string)c["region"]! != aggregate)
-                .Select(c => (Region: (string)c["region"]!, Time: (string)c["time"]!, Shift: c["mean_after"]!.GetValue<double>() - c["mean_before"]!.GetValue<double>()))
-                .Select(c => (c.Region, c.Time, c.Shift, Size: Math.Abs(c.Shift) / noise.GetValueOrDefault(c.Region, double.NaN)))
-                .OrderByDescending(c => double.IsNaN(c.Size) ? -1 : c.Size).ToList();
+            var mainChanges = changes.Where(c => (string)c["method"]! == "pettitt" && (string)c["region"]! != aggregate)
+                .Select(c => ((string)c["region"]!, (string)c["time"]!, c["mean_before"]!.GetValue<double>(), c["mean_after"]!.GetValue<double>()));
+            var main = GridDrift.Analysis.ChangeSizes.InNoiseUnits(mainChanges, noise);
             if (main.Count > 0)
             {
                 doc.Text($"The main change of each region (Pettitt), largest first, in units of the series' short-term noise" + (aggregate is null ? ":" : $" (`{aggregate}`, the aggregate, left out):"));

@@ -2,6 +2,7 @@ using System.Text.Json.Nodes;
 using GridDrift.Outputs.Fields;
 using GridDrift.Outputs.Series;
 using GridDrift.Results;
+using GridDrift.Workflows;
 
 namespace GridDrift.Pipeline;
 

@@ -4,6 +4,7 @@ using GridDrift.Formats.Classic;
 using GridDrift.Grids;
 using GridDrift.Pipeline;
 using GridDrift.Tests.Support;
+using GridDrift.Workflows;
 
 namespace GridDrift.Tests.Conventions;
 

@@ -1,11 +1,13 @@
 using System.Text.Json;
 using CsCheck;
-using GridDrift.Climatology;
+using GridDrift.Operators.Climatology;
 using GridDrift.Formats;
 using GridDrift.Frames;
 using GridDrift.Outputs.Fields;
 using GridDrift.Pipeline;
 using GridDrift.Tests.Support;
+using GridDrift.Workflows;
+using GridDrift.Products;
 
 namespace GridDrift.Tests.Pipeline;
 

@@ -40,10 +40,6 @@ public sealed class ValueCodec
         Warnings = warnings;
     }
 
-    /// <summary>An identity codec for float data with no conventions.</summary>
-    public static ValueCodec Plain(NcType storage) =>
-        new(storage, 1, 0, null, [], double.NegativeInfinity, double.PositiveInfinity, true, []);
-
     public static ValueCodec For(NcVariable variable)
     {
         var warnings = new List<string>();

@@ -32,7 +32,6 @@ public sealed class ClassicWriter : IDisposable
     long _numrecs;
 
     public ClassicVariant Variant { get; private set; }
-    public string FinalPath => _finalPath;
 
     public sealed class Definition
     {

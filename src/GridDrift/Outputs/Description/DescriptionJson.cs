@@ -1,6 +1,6 @@
 using System.Text;
 using System.Text.Json;
-using GridDrift.Pipeline;
+using GridDrift.Results;
 
 namespace GridDrift.Outputs.Description;
 

@@ -1,5 +1,5 @@
 using System.Text;
-using GridDrift.Pipeline;
+using GridDrift.Results;
 
 namespace GridDrift.Outputs.Description;
 

@@ -1,12 +1,9 @@
-using GridDrift.Climatology;
+using GridDrift.Operators.Climatology;
 using GridDrift.Conventions.Time;
 using GridDrift.Formats;
 using GridDrift.Formats.Classic;
 
 namespace GridDrift.Outputs.Fields;
-
-/// <summary>The slot times and climatological bounds of each slot (CF Conventions §7.4).</summary>
-public sealed record SlotTimes(CfTime[] Times, CfTime[] BoundsStart, CfTime[] BoundsEnd);
 
 /// <summary>
 /// A climatology as CF Conventions §7.4 describes it: one time step per slot whose time

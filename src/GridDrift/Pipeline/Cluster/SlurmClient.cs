@@ -52,8 +52,6 @@ public sealed partial class SlurmClient
         return records;
     }
 
-    public void Cancel(string jobId) => Execute("scancel", [jobId]);
-
     [GeneratedRegex(@"(?:^|\s)([A-Za-z][\w:/]*)=(\S*)")]
     private static partial Regex Field();
 

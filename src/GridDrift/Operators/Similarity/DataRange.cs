@@ -1,0 +1,62 @@
+using System.Globalization;
+using GridDrift.Formats;
+
+namespace GridDrift.Operators.Similarity;
+
+/// <summary>
+/// The FIXED data range L of SSIM (and the 0–255 rescaling of VIF): from --range LO:HI, else the
+/// variable's valid_min/valid_max (or valid_range), else a documented default for its
+/// standard_name. Never a frame's own minimum and maximum: frames must stay comparable.
+/// </summary>
+public sealed record DataRange(double Low, double High, string Source)
+{
+    public double Width => High - Low;
+
+    /// <summary>Defaults by CF standard_name (physically plausible spans of the quantity, common practice).</summary>
+    public static readonly IReadOnlyDictionary<string, (double Low, double High)> Defaults = new Dictionary<string, (double, double)>
+    {
+        ["toa_brightness_temperature"] = (180, 320),
+        ["brightness_temperature"] = (180, 320),
+        ["atmosphere_mass_content_of_water_vapor"] = (0, 80),
+        ["lwe_thickness_of_atmosphere_mass_content_of_water_vapor"] = (0, 0.08),
+        ["specific_humidity"] = (0, 0.03),
+        ["relative_humidity"] = (0, 100),
+        ["air_temperature"] = (180, 330),
+    };
+
+    /// <summary>
+    /// <see cref="Resolve(string?, NcVariable, string)"/> for frames delivered in <paramref name="deliveredUnits"/>:
+    /// a range from the file's attributes or the standard_name defaults is in the file's units and is converted.
+    /// </summary>
+    public static DataRange Resolve(string? option, NcVariable variable, string path, string deliveredUnits)
+    {
+        var range = Resolve(option, variable, path);
+        string fileUnits = variable.Attributes.Text("units") ?? "1";
+        if (option is not null || fileUnits == deliveredUnits) return range;
+        var c = GridDrift.Conventions.Units.UnitConverter.Between(fileUnits, deliveredUnits);
+        return range with { Low = c.Convert(range.Low), High = c.Convert(range.High) };
+    }
+
+    public static DataRange Resolve(string? option, NcVariable variable, string path)
+    {
+        if (option is not null)
+        {
+            var parts = option.Split(':');
+            if (parts.Length == 2 && double.TryParse(parts[0], NumberStyles.Float, CultureInfo.InvariantCulture, out var lo)
+                && double.TryParse(parts[1], NumberStyles.Float, CultureInfo.InvariantCulture, out var hi) && hi > lo)
+                return new DataRange(lo, hi, "--range");
+            throw new BadInputException(null, null, $"--range {option}: expected LO:HI with LO < HI");
+        }
+        var a = variable.Attributes;
+        double scale = a.Find("scale_factor")?.FirstNumber() ?? 1, offset = a.Find("add_offset")?.FirstNumber() ?? 0;
+        bool packedBounds(NcAttribute attr) => attr.Type == variable.Type && (scale != 1 || offset != 0);
+        double? min = null, max = null;
+        if (a.Find("valid_range") is { Count: >= 2 } vr) { var v = vr.AsDoubles(); (min, max) = packedBounds(vr) ? (v[0] * scale + offset, v[1] * scale + offset) : (v[0], v[1]); }
+        if (a.Find("valid_min") is { } vmin && vmin.FirstNumber() is { } x) min = packedBounds(vmin) ? x * scale + offset : x;
+        if (a.Find("valid_max") is { } vmax && vmax.FirstNumber() is { } y) max = packedBounds(vmax) ? y * scale + offset : y;
+        if (min is { } l && max is { } h && h > l) return new DataRange(l, h, "valid_min/valid_max");
+        if (a.Text("standard_name") is { } name && Defaults.TryGetValue(name, out var d)) return new DataRange(d.Low, d.High, $"default for {name}");
+        throw new BadInputException(path, variable.Name,
+            "no fixed data range: give --range LO:HI (SSIM needs one range for all frames; the variable has no valid_min/valid_max and no standard_name with a default)");
+    }
+}

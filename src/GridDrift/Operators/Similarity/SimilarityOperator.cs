@@ -1,0 +1,118 @@
+using GridDrift.Conventions.Time;
+using GridDrift.Frames;
+using GridDrift.Grids;
+using GridDrift.Regions;
+using GridDrift.Results;
+using GridDrift.Operators.Statistics;
+
+namespace GridDrift.Operators.Similarity;
+
+/// <summary>
+/// The pair metrics of one pair of frames per region — SSIM (area-weighted mean of the SSIM
+/// map), VIF (on each region's bounding box), correlation, RMS difference, mean absolute change
+/// and bias — handed to a series sink in time order, stamped with the later frame's time (and the
+/// earlier one's, for frame-to-frame pairs).
+/// </summary>
+public sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Worker>
+{
+    readonly Grid _grid;
+    readonly RegionMask _mask;
+    readonly SeparablePlan? _plan;
+    readonly DataRange _range;
+    readonly bool _periodic;
+    readonly IReadOnlyList<SimilarityMetric> _metrics;
+    readonly double _minValid;
+    readonly RegionBox[] _boxes;
+    readonly IReadOnlyList<CfTime> _laterTimes;
+    readonly IReadOnlyList<CfTime>? _earlierTimes;
+    readonly ISeriesSink _sink;
+    readonly List<Worker> _workers = [];
+
+    public sealed class Worker
+    {
+        public required Ssim Ssim;
+        public required Vif Vif;
+        public required RegionReducer MapReducer;
+        public required float[] Map;
+        public required double[] MapStats;
+        public required double[] PairStats;
+        public required SeparablePairReducer? Pairs;
+        public required double[] Values;
+        public required double[] Valid;
+        internal long Outside;
+    }
+
+    /// <param name="earlierTimes">the earlier frames' times, stamped beside the later one's (frame-to-frame pairs); null for comparisons</param>
+    public SimilarityOperator(RegionSet regions, DataRange range, bool periodic, IReadOnlyList<SimilarityMetric> metrics, double minValid,
+        IReadOnlyList<CfTime> laterTimes, IReadOnlyList<CfTime>? earlierTimes, ISeriesSink sink)
+    {
+        _grid = regions.Grid;
+        _mask = regions.Mask;
+        _plan = regions.Separable;
+        _range = range;
+        _periodic = periodic;
+        _metrics = metrics;
+        _minValid = minValid;
+        _boxes = metrics.Contains(SimilarityMetric.Vif) ? regions.Boxes : [];
+        _laterTimes = laterTimes;
+        _earlierTimes = earlierTimes;
+        _sink = sink;
+    }
+
+    /// <summary>Cells of the later frames outside the data range (SSIM's and VIF's scaling assume the range holds them).</summary>
+    public long CellsOutsideRange => _workers.Sum(w => w.Outside);
+
+    public Worker NewWorker()
+    {
+        var w = new Worker
+        {
+            Ssim = new Ssim(_grid.Rows, _grid.Columns, _periodic, _range.Low, _range.High),
+            Vif = new Vif(),
+            MapReducer = new RegionReducer(_mask, [RegionStatistic.Mean, RegionStatistic.Valid], _plan),
+            Map = _metrics.Contains(SimilarityMetric.Ssim) ? new float[_grid.CellCount] : [],
+            MapStats = new double[_mask.Count * 2],
+            PairStats = new double[_mask.Count * PairReducer.Stride],
+            Pairs = _plan is null ? null : new SeparablePairReducer(_plan),
+            Values = new double[_mask.Count * _metrics.Count],
+            Valid = new double[_mask.Count],
+        };
+        lock (_workers) _workers.Add(w);
+        return w;
+    }
+
+    public void Process(Worker w, FramePair pair, ReadOnlySpan<float> a, ReadOnlySpan<float> b)
+    {
+        int nq = _metrics.Count;
+        foreach (var v in b) if (v < _range.Low || v > _range.High) w.Outside++;
+        if (w.Pairs is { } separable) separable.Reduce(a, b, _mask.RegionArea, w.PairStats);
+        else PairReducer.Reduce(_mask, a, b, w.PairStats);
+        if (_metrics.Contains(SimilarityMetric.Ssim))
+        {
+            w.Ssim.Map(a, b, w.Map);
+            w.MapReducer.Reduce(w.Map, w.MapStats);
+        }
+        for (int r = 0; r < _mask.Count; r++)
+        {
+            double valid = w.PairStats[PairReducer.Stride * r + 3];
+            w.Valid[r] = valid;
+            bool drop = !ValidFraction.Keeps(valid, _minValid);
+            for (int q = 0; q < nq; q++)
+            {
+                double value = drop ? double.NaN : _metrics[q] switch
+                {
+                    SimilarityMetric.Ssim => w.MapStats[2 * r + 1] >= _minValid ? w.MapStats[2 * r] : double.NaN,
+                    SimilarityMetric.Corr => w.PairStats[PairReducer.Stride * r],
+                    SimilarityMetric.Rmsd => w.PairStats[PairReducer.Stride * r + 1],
+                    SimilarityMetric.MeanAbsChange => w.PairStats[PairReducer.Stride * r + 2],
+                    SimilarityMetric.Bias => w.PairStats[PairReducer.Stride * r + 4],
+                    SimilarityMetric.Vif => RegionVif.OfBox(w.Vif, _boxes[r], _grid.Columns, a, b, _range, _minValid),
+                    _ => double.NaN,
+                };
+                w.Values[r * nq + q] = value;
+            }
+        }
+    }
+
+    public void Complete(Worker w, FramePair pair) =>
+        _sink.Write(_laterTimes[pair.Later], w.Values, w.Valid, _earlierTimes is not null && pair.Earlier >= 0 ? _earlierTimes[pair.Earlier] : null);
+}

@@ -1,0 +1,227 @@
+using GridDrift.Grids;
+namespace GridDrift.Operators.Similarity;
+
+/// <summary>
+/// The structural similarity map of Wang, Bovik, Sheikh &amp; Simoncelli (2004, IEEE Trans.
+/// Image Processing 13(4): 600), eq. 13 with the Gaussian window of §III-C (σ = 1.5, 11 taps,
+/// normalised), K1 = 0.01, K2 = 0.03, C1 = (K1·L)², C2 = (K2·L)², on the physical values with a
+/// FIXED data range L, and population (co)variances. On the sphere: along x the window wraps
+/// where the grid is periodic (a global longitude circle) and reflects elsewhere (the
+/// half-sample symmetric edge of scipy.ndimage's 'reflect'); along y it reflects. Missing cells
+/// are handled by normalised convolution: every local moment is divided by the window weight
+/// that falls on cells valid in both frames; a cell missing in either frame, or whose valid
+/// window weight is below <see cref="MinWindowWeight"/>, gets no value (NaN). Moments are
+/// filtered in float32 on values shifted by the earlier frame's mean (so squares stay small and
+/// keep their digits) and combined in float64; against scikit-image's float64 maps the
+/// difference stays below 1e-5 per cell. SSIM needs the second moments only as σx² + σy² and
+/// σxy, so the sum s = a + b and difference d = a − b are squared instead of a², b² and ab:
+/// E[a²] + E[b²] = (E[s²] + E[d²]) / 2 and 2E[ab] = (E[s²] − E[d²]) / 2, four filtered fields
+/// instead of five. For identical frames d = 0 and both halves of the ratio stay equal bit for bit.
+/// The filter streams row by row: the horizontally filtered rows of the local fields live in a
+/// ring of 11 rows, so a worker's memory is a few rows, not several copies of the frame.
+/// </summary>
+public sealed class Ssim
+{
+    public const double K1 = 0.01, K2 = 0.03, Sigma = 1.5;
+    /// <summary>Fraction of the window weight that must fall on valid cells for a value.</summary>
+    public const double MinWindowWeight = 0.5;
+    const int Fields = 5; // m, a, b, ss, dd
+    const int Block = 4;  // output rows filtered together: each loaded row serves up to four of them
+
+    readonly int _rows, _columns, _radius, _taps, _slots;
+    readonly Edge _xEdge;
+    readonly double _c1, _c2;
+    double _shift;
+    readonly SeparableFilter _filter = new(GaussianKernel.Truncated(Sigma));
+    readonly float[][] _ring;       // per field: taps × columns horizontally filtered rows
+    readonly float[][] _padded;     // per field: one padded source row
+    readonly float[][] _out;        // per field: the vertically filtered row
+    readonly float[] _kernel;
+    readonly int[] _cached;         // source row held by each ring slot
+    readonly int[] _sources;
+
+    /// <summary>Whether SSIM's windows wrap around in longitude: a latitude-longitude grid whose columns go round the globe.</summary>
+    public static bool PeriodicFor(Grid grid) =>
+        grid.IsRectilinear && HorizontalGrid.FromAxes(
+            Enumerable.Range(0, grid.Rows).Select(j => grid.CenterLat[j * grid.Columns]).ToArray(),
+            grid.CenterLon.AsSpan(0, grid.Columns).ToArray()).IsGlobalInLongitude;
+
+    public Ssim(int rows, int columns, bool periodicX, double rangeLow, double rangeHigh)
+    {
+        _rows = rows;
+        _columns = columns;
+        _xEdge = periodicX ? Edge.Wrap : Edge.Reflect;
+        double l = rangeHigh - rangeLow;
+        _c1 = (K1 * l) * (K1 * l);
+        _c2 = (K2 * l) * (K2 * l);
+        _radius = _filter.Radius;
+        _taps = 2 * _radius + 1;
+        if (_taps != SsimKernels.Taps) throw new InternalFaultException($"SSIM's window has {_taps} taps; its kernels are written for {SsimKernels.Taps}");
+        _slots = Block + 2 * _radius;
+        _kernel = GaussianKernel.Truncated(Sigma).Select(w => (float)w).ToArray();
+        _ring = Enumerable.Range(0, Fields).Select(_ => new float[_slots * columns]).ToArray();
+        _padded = Enumerable.Range(0, Fields).Select(_ => new float[columns + 2 * _radius]).ToArray();
+        _out = Enumerable.Range(0, Fields).Select(_ => new float[Block * columns]).ToArray();
+        _cached = new int[_slots];
+        _sources = new int[_slots];
+    }
+
+    /// <summary>Writes the SSIM map of the pair (x = earlier, y = later) into <paramref name="map"/>.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public void Map(ReadOnlySpan<float> x, ReadOnlySpan<float> y, Span<float> map)
+    {
+        bool complete = true;
+        double sum = 0;
+        int count = 0;
+        for (int i = 0; i < x.Length; i++)
+        {
+            bool valid = !float.IsNaN(x[i]) && !float.IsNaN(y[i]);
+            complete &= valid;
+            if (valid) { sum += x[i]; count++; }
+        }
+        _shift = count > 0 ? Math.Round(sum / count) : 0;
+        Array.Fill(_cached, -1);
+        int first = complete ? 1 : 0;
+        for (int j0 = 0; j0 < _rows; j0 += Block)
+        {
+            int nb = Math.Min(Block, _rows - j0), inputs = nb + 2 * _radius;
+            // the input rows of the block form one contiguous run of source rows (reflection included), so slot = row mod slots never collides
+            for (int t = 0; t < inputs; t++)
+            {
+                int s = SeparableFilter.EdgeIndex(j0 + t - _radius, _rows, Edge.Reflect);
+                int slot = s % _slots;
+                if (_cached[slot] != s)
+                {
+                    FilterSourceRow(x, y, s, slot, first);
+                    _cached[slot] = s;
+                }
+                _sources[t] = slot * _columns;
+            }
+            for (int f = first; f < Fields; f++)
+                if (nb == Block) SsimKernels.ColumnsBlock(_kernel, _ring[f], _sources, _columns, _out[f]);
+                else
+                    for (int b = 0; b < nb; b++) SsimKernels.Columns(_kernel, _ring[f], _sources.AsSpan(b, _taps), _columns, _out[f].AsSpan(b * _columns, _columns));
+            for (int b = 0; b < nb; b++)
+            {
+                int j = j0 + b;
+                Combine(x.Slice(j * _columns, _columns), y.Slice(j * _columns, _columns), complete, map.Slice(j * _columns, _columns), b * _columns);
+            }
+        }
+    }
+
+    /// <summary>The complete-frame case of <see cref="Combine"/>, eight cells at a time in float64 lanes, same grouping.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    int CombineComplete(Span<float> target, int offset)
+    {
+        if (!System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated) return 0;
+        var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
+        var fss = _out[3].AsSpan(offset, _columns); var fdd = _out[4].AsSpan(offset, _columns);
+        var shift = System.Runtime.Intrinsics.Vector256.Create(_shift);
+        var c1 = System.Runtime.Intrinsics.Vector256.Create(_c1);
+        var c2 = System.Runtime.Intrinsics.Vector256.Create(_c2);
+        var two = System.Runtime.Intrinsics.Vector256.Create(2.0);
+        int i = 0;
+        for (; i + 8 <= _columns; i += 8)
+        {
+            var (maL, maH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fa.Slice(i, 8)));
+            var (mbL, mbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fb.Slice(i, 8)));
+            var (ssL, ssH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fss.Slice(i, 8)));
+            var (ddL, ddH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fdd.Slice(i, 8)));
+            var lo = Ratio(maL, mbL, ssL, ddL, shift, c1, c2, two);
+            var hi = Ratio(maH, mbH, ssH, ddH, shift, c1, c2, two);
+            System.Runtime.Intrinsics.Vector256.CopyTo(System.Runtime.Intrinsics.Vector256.Narrow(lo, hi), target.Slice(i, 8));
+        }
+        return i;
+    }
+
+    static System.Runtime.Intrinsics.Vector256<double> Ratio(System.Runtime.Intrinsics.Vector256<double> ma, System.Runtime.Intrinsics.Vector256<double> mb,
+        System.Runtime.Intrinsics.Vector256<double> ss, System.Runtime.Intrinsics.Vector256<double> dd,
+        System.Runtime.Intrinsics.Vector256<double> shift, System.Runtime.Intrinsics.Vector256<double> c1, System.Runtime.Intrinsics.Vector256<double> c2,
+        System.Runtime.Intrinsics.Vector256<double> two)
+    {
+        var half = System.Runtime.Intrinsics.Vector256.Create(0.5);
+        var spread = (ss + dd) * half - (ma * ma + mb * mb);
+        var cov2 = (ss - dd) * half - two * (ma * mb);
+        var mx = ma + shift; var my = mb + shift;
+        var a1 = two * (mx * my) + c1; var b1 = (mx * mx + my * my) + c1;
+        var a2 = cov2 + c2; var b2 = spread + c2;
+        return a1 * a2 / (b1 * b2);
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    void FilterSourceRow(ReadOnlySpan<float> x, ReadOnlySpan<float> y, int row, int slot, int firstField)
+    {
+        var xr = x.Slice(row * _columns, _columns);
+        var yr = y.Slice(row * _columns, _columns);
+        int r = _radius, p = 0;
+        float shift = (float)_shift;
+        if (firstField == 1 && System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
+        {
+            // complete frames: the interior of the row in eight-lane steps, the edges below one by one
+            var vs = System.Runtime.Intrinsics.Vector256.Create(shift);
+            int i = 0;
+            for (; i + 8 <= _columns; i += 8)
+            {
+                var a = System.Runtime.Intrinsics.Vector256.Create(xr.Slice(i, 8)) - vs;
+                var b = System.Runtime.Intrinsics.Vector256.Create(yr.Slice(i, 8)) - vs;
+                System.Runtime.Intrinsics.Vector256.CopyTo(a, _padded[1].AsSpan(r + i));
+                System.Runtime.Intrinsics.Vector256.CopyTo(b, _padded[2].AsSpan(r + i));
+                var sum = a + b; var difference = a - b;
+                System.Runtime.Intrinsics.Vector256.CopyTo(sum * sum, _padded[3].AsSpan(r + i));
+                System.Runtime.Intrinsics.Vector256.CopyTo(difference * difference, _padded[4].AsSpan(r + i));
+            }
+            for (; i < _columns; i++) Put(xr[i], yr[i], r + i, shift);
+            for (p = 0; p < r; p++)
+            {
+                int left = SeparableFilter.EdgeIndex(p - r, _columns, _xEdge), right = SeparableFilter.EdgeIndex(_columns + p, _columns, _xEdge);
+                Put(xr[left], yr[left], p, shift);
+                Put(xr[right], yr[right], _columns + r + p, shift);
+            }
+        }
+        else
+            for (p = 0; p < _columns + 2 * r; p++)
+            {
+                int i = p < r || p >= _columns + r ? SeparableFilter.EdgeIndex(p - r, _columns, _xEdge) : p - r;
+                Put(xr[i], yr[i], p, shift);
+            }
+        for (int f = firstField; f < Fields; f++) SsimKernels.Along(_kernel, _padded[f], _ring[f].AsSpan(slot * _columns, _columns));
+    }
+
+    void Put(float xi, float yi, int p, float shift)
+    {
+        bool valid = !float.IsNaN(xi) && !float.IsNaN(yi);
+        float a = valid ? xi - shift : 0, b = valid ? yi - shift : 0;
+        _padded[0][p] = valid ? 1 : 0;
+        _padded[1][p] = a;
+        _padded[2][p] = b;
+        float sum = a + b, difference = a - b;
+        _padded[3][p] = sum * sum;
+        _padded[4][p] = difference * difference;
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    void Combine(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target, int offset)
+    {
+        var m = _out[0].AsSpan(offset, _columns); var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
+        var fss = _out[3].AsSpan(offset, _columns); var fdd = _out[4].AsSpan(offset, _columns);
+        int start = complete ? CombineComplete(target, offset) : 0;
+        for (int i = start; i < _columns; i++)
+        {
+            double w = complete ? 1 : m[i];
+            if (!complete && (float.IsNaN(xr[i]) || float.IsNaN(yr[i]) || w < MinWindowWeight))
+            {
+                target[i] = float.NaN;
+                continue;
+            }
+            double inv = 1 / w;
+            double ma = fa[i] * inv, mb = fb[i] * inv;
+            double ss = fss[i] * inv, dd = fdd[i] * inv;
+            double spread = (ss + dd) * 0.5 - (ma * ma + mb * mb), cov2 = (ss - dd) * 0.5 - 2.0 * (ma * mb);
+            double mx = ma + _shift, my = mb + _shift;
+            // grouped so that identical frames give exactly 1: 2(μxμy) = μx² + μy² and 2σxy = σx² + σy² bit for bit
+            double a1 = 2.0 * (mx * my) + _c1, b1 = (mx * mx + my * my) + _c1;
+            double a2 = cov2 + _c2, b2 = spread + _c2;
+            target[i] = (float)(a1 * a2 / (b1 * b2));
+        }
+    }
+}

@@ -1,0 +1,154 @@
+namespace GridDrift.Operators.Statistics;
+
+/// <summary>
+/// Area-weighted quantiles. Values sorted ascending, each value i stands at the cumulative
+/// probability of the middle of its weight, cᵢ = (Σ_{k&lt;i} wₖ + wᵢ/2) / Σw, and the p-quantile
+/// interpolates linearly between the two values whose cᵢ bracket p (the lowest value below
+/// c₀, the highest above the last). With equal weights this is definition 5 of Hyndman & Fan
+/// (1996, The American Statistician 50(4): 361), Hazen's plotting position (k − ½)/n.
+/// Large inputs are not sorted whole: a histogram of the values finds, for each p, the few
+/// neighbouring bins that hold the bracketing values, and only those are sorted; the weight of
+/// all lower bins is known exactly, so the result is the same as a full sort's.
+/// </summary>
+public static class WeightedQuantile
+{
+    const int SortBelow = 4096;
+    const int Bins = 4096;
+
+    [ThreadStatic] static double[]? _binWeight;
+    [ThreadStatic] static int[]? _binCount;
+    [ThreadStatic] static float[]? _pickedValues;
+    [ThreadStatic] static double[]? _pickedWeights;
+
+    /// <summary>Evaluates each probability; <paramref name="values"/> and <paramref name="weights"/> may be reordered.</summary>
+    public static void Evaluate(Span<float> values, Span<double> weights, ReadOnlySpan<double> probabilities, Span<double> results)
+    {
+        int n = values.Length;
+        if (n == 0)
+        {
+            results.Fill(double.NaN);
+            return;
+        }
+        if (n < SortBelow)
+        {
+            values.Sort(weights);
+            double total = 0;
+            for (int i = 0; i < n; i++) total += weights[i];
+            for (int q = 0; q < probabilities.Length; q++) results[q] = FromSorted(values, weights, 0, total, probabilities[q], true, true);
+            return;
+        }
+        ByHistogram(values, weights, probabilities, results);
+    }
+
+    /// <summary>
+    /// The p-quantile from a sorted run whose lower neighbours weigh <paramref name="below"/> in all;
+    /// <paramref name="isFirst"/>/<paramref name="isLast"/> say whether the run holds the smallest/largest value.
+    /// </summary>
+    static double FromSorted(ReadOnlySpan<float> v, ReadOnlySpan<double> w, double below, double total, double p, bool isFirst, bool isLast)
+    {
+        double target = p * total;
+        double previousMid = double.NaN, previousValue = double.NaN;
+        double before = below;
+        for (int i = 0; i < v.Length; i++)
+        {
+            double mid = before + 0.5 * w[i];
+            if (mid >= target)
+            {
+                if (double.IsNaN(previousMid)) return isFirst ? v[i] : double.NaN;
+                return previousValue + (v[i] - previousValue) * (target - previousMid) / (mid - previousMid);
+            }
+            before += w[i];
+            previousMid = mid;
+            previousValue = v[i];
+        }
+        return isLast ? v[^1] : double.NaN;
+    }
+
+    [ThreadStatic] static ushort[]? _bin;
+
+    static void ByHistogram(Span<float> values, Span<double> weights, ReadOnlySpan<double> probabilities, Span<double> results)
+    {
+        int n = values.Length, nq = probabilities.Length;
+        float lo = float.PositiveInfinity, hi = float.NegativeInfinity;
+        double total = 0;
+        for (int i = 0; i < n; i++)
+        {
+            if (values[i] < lo) lo = values[i];
+            if (values[i] > hi) hi = values[i];
+            total += weights[i];
+        }
+        if (!(hi > lo))
+        {
+            results[..nq].Fill(lo);
+            return;
+        }
+        _binWeight ??= new double[Bins];
+        _binCount ??= new int[Bins];
+        if (_bin is null || _bin.Length < n) _bin = new ushort[Math.Max(n, 4096)];
+        var binWeight = _binWeight.AsSpan();
+        var binCount = _binCount.AsSpan();
+        var bin = _bin.AsSpan(0, n);
+        binWeight.Clear();
+        binCount.Clear();
+        double scale = (Bins - 1) / ((double)hi - lo);
+        for (int i = 0; i < n; i++)
+        {
+            int b = (int)((values[i] - (double)lo) * scale);
+            bin[i] = (ushort)b;
+            binWeight[b] += weights[i];
+            binCount[b]++;
+        }
+
+        // per probability: the bins [first, last] that hold the bracketing values, and the weight below them
+        Span<int> first = stackalloc int[nq];
+        Span<int> last = stackalloc int[nq];
+        Span<double> below = stackalloc double[nq];
+        Span<int> offset = stackalloc int[nq + 1];
+        for (int q = 0; q < nq; q++)
+        {
+            double target = probabilities[q] * total, cumulative = 0;
+            int k = 0;
+            for (; k < Bins - 1; k++)
+            {
+                if (cumulative + binWeight[k] >= target && binCount[k] > 0) break;
+                cumulative += binWeight[k];
+            }
+            first[q] = last[q] = k;
+            below[q] = cumulative;
+            for (int b = k - 1; b >= 0; b--) if (binCount[b] > 0) { first[q] = b; below[q] -= binWeight[b]; break; }
+            for (int b = k + 1; b < Bins; b++) if (binCount[b] > 0) { last[q] = b; break; }
+            int count = 0;
+            for (int b = first[q]; b <= last[q]; b++) count += binCount[b];
+            offset[q + 1] = offset[q] + count;
+        }
+        int picked = offset[nq];
+        if (_pickedValues is null || _pickedValues.Length < picked) { _pickedValues = new float[Math.Max(picked, 1024)]; _pickedWeights = new double[_pickedValues.Length]; }
+        Span<int> fill = stackalloc int[nq];
+        offset[..nq].CopyTo(fill);
+        var pickedValues = _pickedValues.AsSpan();  // thread-static fields are slow to reach: hoist them out of the loop
+        var pickedWeights = _pickedWeights!.AsSpan();
+        int lowestBin = Bins, highestBin = -1;
+        for (int q = 0; q < nq; q++) { lowestBin = Math.Min(lowestBin, first[q]); highestBin = Math.Max(highestBin, last[q]); }
+        for (int i = 0; i < n; i++)
+        {
+            int b = bin[i];
+            if (b < lowestBin || b > highestBin) continue;
+            for (int q = 0; q < nq; q++)
+                if (b >= first[q] && b <= last[q])
+                {
+                    pickedValues[fill[q]] = values[i];
+                    pickedWeights[fill[q]++] = weights[i];
+                }
+        }
+        for (int q = 0; q < nq; q++)
+        {
+            var pv = _pickedValues.AsSpan(offset[q], offset[q + 1] - offset[q]);
+            var pw = _pickedWeights!.AsSpan(offset[q], pv.Length);
+            pv.Sort(pw);
+            bool lowest = true, highest = true;
+            for (int b = 0; b < first[q]; b++) if (binCount[b] > 0) { lowest = false; break; }
+            for (int b = last[q] + 1; b < Bins; b++) if (binCount[b] > 0) { highest = false; break; }
+            results[q] = FromSorted(pv, pw, below[q], total, probabilities[q], lowest, highest);
+        }
+    }
+}
