@@ -1,5 +1,6 @@
 using System.CommandLine;
 using System.CommandLine.Parsing;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Cli;
 
@@ -41,24 +42,7 @@ internal static class UsageErrors
     static string Unknown(string token, List<string> known, Command command)
     {
         string what = token.StartsWith('-') ? "unknown option" : "unexpected argument";
-        var nearest = known.Select(k => (Name: k, Distance: Distance(token, k))).OrderBy(x => x.Distance).FirstOrDefault();
-        string hint = nearest.Name is not null && nearest.Distance <= Math.Max(2, token.Length / 3) ? $" (did you mean {nearest.Name}?)" : "";
+        string hint = NearestName.Of(token, known) is { } nearest ? $" (did you mean {nearest}?)" : "";
         return $"{what} '{token}'{hint}; 'griddrift {(command is RootCommand ? "" : command.Name + " ")}--help' lists them";
-    }
-
-    /// <summary>Optimal string alignment distance: insertions, deletions, substitutions and swaps of neighbours each cost one.</summary>
-    internal static int Distance(string a, string b)
-    {
-        var d = new int[a.Length + 1, b.Length + 1];
-        for (int i = 0; i <= a.Length; i++) d[i, 0] = i;
-        for (int j = 0; j <= b.Length; j++) d[0, j] = j;
-        for (int i = 1; i <= a.Length; i++)
-            for (int j = 1; j <= b.Length; j++)
-            {
-                int cost = a[i - 1] == b[j - 1] ? 0 : 1;
-                d[i, j] = Math.Min(Math.Min(d[i - 1, j] + 1, d[i, j - 1] + 1), d[i - 1, j - 1] + cost);
-                if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) d[i, j] = Math.Min(d[i, j], d[i - 2, j - 2] + 1);
-            }
-        return d[a.Length, b.Length];
     }
 }

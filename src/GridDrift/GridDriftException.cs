@@ -18,6 +18,16 @@ public sealed class BadInputException : Exception
         Fault = fault;
     }
 
+    BadInputException(string file, string fault, string message) : base(message)
+    {
+        File = file;
+        Fault = fault;
+    }
+
+    /// <summary>A fault of a recipe: its file, the line and the key (section.key), then the fault.</summary>
+    public static BadInputException InRecipe(string path, int line, string key, string fault) =>
+        new(path, fault, $"{path}: line {line}: {key}: {fault}");
+
     static string Compose(string? file, string? variable, string fault)
     {
         var parts = new List<string>(3);

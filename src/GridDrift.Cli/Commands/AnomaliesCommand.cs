@@ -3,6 +3,7 @@ using GridDrift.Operators.Climatology;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
 using GridDrift.Workflows;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Cli.Commands;
 
@@ -14,13 +15,13 @@ public static class AnomaliesCommand
         var files = CommonOptions.Files();
         var variable = CommonOptions.Variable();
         var climatology = new Option<string>("--climatology") { Description = "a climatology made by griddrift climatology", Required = true };
-        var kind = new Option<string>("--kind") { Description = "absolute (x − mean), relative (percent of the mean) or standardized (÷ standard deviation)", DefaultValueFactory = _ => "absolute" }.OneOf("absolute", "relative", "standardized");
+        var kind = KeyOptions.For(AnomaliesKeys.Kind);
         var output = new Option<string>("--out") { Description = "anomaly field NetCDF to write", Required = true };
         var regions = CommonOptions.Regions();
         regions.Required = false;
         var table = new Option<string?>("--table") { Description = "with --regions: tidy Parquet table of the region-mean anomalies" };
         var series = new Option<string?>("--series") { Description = "with --regions: series NetCDF of the region-mean anomalies (default: OUT_series.nc)" };
-        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 }.Between(0, 1);
+        var minValid = KeyOptions.For(CommonKeys.MinValid);
         var format = CommonOptions.Format();
         var deflate = CommonOptions.Deflate();
         var shuffle = CommonOptions.Shuffle();

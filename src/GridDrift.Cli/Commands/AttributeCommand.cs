@@ -1,6 +1,7 @@
 using System.CommandLine;
 using GridDrift.Pipeline;
 using GridDrift.Workflows;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Cli.Commands;
 
@@ -10,13 +11,13 @@ public static class AttributeCommand
     public static Command Build(string[] commandLine)
     {
         var input = new Argument<string>("SERIES") { Description = "a series product (series NetCDF or tidy Parquet), e.g. of similarity" };
-        var target = new Option<string>("--target") { Description = "the region whose series is explained", Required = true };
-        var quantity = new Option<string?>("--quantity") { Description = "the quantity (default: the only one, else ssim or mean)" };
-        var periods = new Option<string?>("--periods") { Description = "two periods A/B,C/D whose region ranks are compared (default: before/after the target's change point)" };
-        var profiles = new Option<string[]>("--profiles") { Description = "regions whose partial dependence and ICE profiles are written", AllowMultipleArgumentsPerToken = true };
+        var target = KeyOptions.For(AttributeKeys.Target);
+        var quantity = KeyOptions.For(CommonKeys.Quantity);
+        var periods = KeyOptions.For(AttributeKeys.Periods);
+        var profiles = KeyOptions.For(AttributeKeys.Profiles);
         var output = new Option<string>("--out") { Description = "importance table (Parquet); OUT_shapley, OUT_ranks and OUT_profiles are written beside it", Required = true };
         var json = new Option<bool>("--json") { Description = "print a JSON summary on stdout" };
-        var plot = new Option<string?>("--plot") { Description = "folder for the PNG figures" };
+        var plot = KeyOptions.For(CommonKeys.Plot);
         var quiet = CommonOptions.Quiet();
         var command = new Command("attribute", "Which regions drive a target series: ridge model, permutation importance, Shapley values, rank changes between periods.\n\n" +
             "Example:\n  griddrift attribute sim.nc --target global --quantity ssim --out attribution.parquet --json")

@@ -3,6 +3,7 @@ using GridDrift.Operators.Climatology;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
 using GridDrift.Workflows;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Cli.Commands;
 
@@ -13,9 +14,9 @@ public static class ClimatologyCommand
     {
         var files = CommonOptions.Files();
         var variable = CommonOptions.Variable();
-        var by = new Option<string>("--by") { Description = "slots: month, day-of-year or hour-by-month (the diurnal cycle of each month)", Required = true }.OneOf("month", "day-of-year", "hour-by-month");
-        var basePeriod = new Option<string?>("--base") { Description = "base period START/END, e.g. 1991/2020 or 2031-01-01/2033-12-31 (default: the whole record)" };
-        var smooth = new Option<string?>("--smooth") { Description = "day-of-year smoothing: harmonics:N (first N annual harmonics) or window:DAYS (odd, wraps the year)" };
+        var by = KeyOptions.For(ClimatologyKeys.By);
+        var basePeriod = KeyOptions.For(ClimatologyKeys.Base);
+        var smooth = KeyOptions.For(ClimatologyKeys.Smooth);
         var output = new Option<string>("--out") { Description = "climatology NetCDF to write", Required = true };
         var format = CommonOptions.Format();
         var deflate = CommonOptions.Deflate();

@@ -3,6 +3,7 @@ using GridDrift.Frames;
 using GridDrift.Pipeline;
 using GridDrift.Operators.Similarity;
 using GridDrift.Workflows;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Cli.Commands;
 
@@ -16,16 +17,12 @@ public static class SimilarityCommand
         var candidateFiles = new Option<string[]>("--candidate") { Description = "the dataset compared with --reference (e.g. regridded model output); instead of FILE", AllowMultipleArgumentsPerToken = true };
         var variable = CommonOptions.Variable();
         var regions = CommonOptions.Regions();
-        var metric = new Option<string>("--metric")
-        {
-            Description = "metrics, comma-separated: ssim, vif, corr, rmsd, mean-abs-change, bias (default: ssim,corr,rmsd,mean-abs-change)",
-            DefaultValueFactory = _ => "ssim,corr,rmsd,mean-abs-change",
-        }.ListOf(SimilarityMetrics.Parse);
-        var lag = new Option<int>("--lag") { Description = "compare each frame with the one LAG steps earlier", DefaultValueFactory = _ => 1 }.Between(1, int.MaxValue);
-        var range = new Option<string?>("--range") { Description = "fixed data range LO:HI for SSIM and VIF (default: valid_min/valid_max, else a default for the standard_name)" };
-        var acrossGaps = new Option<bool>("--across-gaps") { Description = "also compare frames across gaps in the record (they are skipped and listed otherwise)" };
+        var metric = KeyOptions.For(SimilarityKeys.Metric);
+        var lag = KeyOptions.For(SimilarityKeys.Lag);
+        var range = KeyOptions.For(SimilarityKeys.Range);
+        var acrossGaps = KeyOptions.For(SimilarityKeys.AcrossGaps);
         var against = new Option<string?>("--against") { Description = "compare every frame with the one field in this file (same variable and grid), e.g. a climatology" };
-        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid in both frames gives NaN", DefaultValueFactory = _ => 0.5 }.Between(0, 1);
+        var minValid = KeyOptions.For(CommonKeys.MinValid);
         var output = new Option<string>("--out") { Description = "series NetCDF to write (time, region), time stamped with the later frame, time_bnds (earlier, later)", Required = true };
         var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
         var radius = CommonOptions.EarthRadius();
@@ -45,7 +42,7 @@ public static class SimilarityCommand
             SimilarityMetric[] metrics;
             try
             {
-                metrics = parse.GetValue(metric)!.Split(',', StringSplitOptions.RemoveEmptyEntries).Select(SimilarityMetrics.Parse).Distinct().ToArray();
+                metrics = SimilarityKeys.Metrics(parse.GetValue(metric)!);
             }
             catch (FormatException e)
             {

@@ -3,6 +3,7 @@ using GridDrift.Frames;
 using GridDrift.Pipeline;
 using GridDrift.Operators.Statistics;
 using GridDrift.Workflows;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Cli.Commands;
 
@@ -14,12 +15,8 @@ public static class StatsCommand
         var files = CommonOptions.Files();
         var variable = CommonOptions.Variable();
         var regions = CommonOptions.Regions();
-        var stat = new Option<string>("--stat")
-        {
-            Description = "statistics, comma-separated: mean,std,min,max,p10,p50,p90,valid (default: all)",
-            DefaultValueFactory = _ => "mean,std,min,max,p10,p50,p90,valid",
-        }.ListOf(RegionStatistics.Parse);
-        var minValid = new Option<double>("--min-valid") { Description = "a region with less than this fraction of its area valid gives NaN", DefaultValueFactory = _ => 0.5 }.Between(0, 1);
+        var stat = KeyOptions.For(StatsKeys.Stat);
+        var minValid = KeyOptions.For(CommonKeys.MinValid);
         var output = new Option<string>("--out") { Description = "series NetCDF to write (dimensions time, region)", Required = true };
         var table = new Option<string?>("--table") { Description = "tidy Parquet table to write as well" };
         var radius = CommonOptions.EarthRadius();
@@ -38,7 +35,7 @@ public static class StatsCommand
             RegionStatistic[] statistics;
             try
             {
-                statistics = parse.GetValue(stat)!.Split(',', StringSplitOptions.RemoveEmptyEntries).Select(RegionStatistics.Parse).Distinct().ToArray();
+                statistics = StatsKeys.Statistics(parse.GetValue(stat)!);
             }
             catch (FormatException e)
             {

@@ -46,12 +46,12 @@ public static class DemoRun
         sb.AppendLine($"regions = {List(s.RegionSpecs())}");
         sb.AppendLine("out = \"products\"");
         sb.AppendLine();
-        sb.AppendLine("[stats]\nstatistics = [\"mean\", \"std\", \"valid\"]\nout = \"stats.nc\"\ntable = \"stats.parquet\"\n");
-        sb.AppendLine("[similarity]\nmetrics = [\"ssim\", \"corr\", \"rmsd\"]\nrange = \"180:320\"\nout = \"similarity.nc\"\ntable = \"similarity.parquet\"\n");
+        sb.AppendLine("[stats]\nstat = [\"mean\", \"std\", \"valid\"]\nout = \"stats.nc\"\ntable = \"stats.parquet\"\n");
+        sb.AppendLine("[similarity]\nmetric = [\"ssim\", \"corr\", \"rmsd\"]\nrange = \"180:320\"\nout = \"similarity.nc\"\ntable = \"similarity.parquet\"\n");
         sb.AppendLine("[climatology]\nby = \"month\"\nout = \"climatology.nc\"\n");
         sb.AppendLine("[anomalies]\nkind = \"absolute\"\nout = \"anomalies.nc\"\ntable = \"anomalies.parquet\"\n");
-        sb.AppendLine($"[events]\nseries = \"similarity.nc\"\nquantity = \"ssim\"\nchangepoints = [\"pettitt\", \"pelt-mean\"]\nmin_segment = {minSegment.ToString(CultureInfo.InvariantCulture)}\nout = \"events.parquet\"\nplots = \"figures\"\n");
-        sb.AppendLine("[attribute]\nseries = \"similarity.nc\"\ntarget = \"global\"\nquantity = \"ssim\"\nout = \"attribution.parquet\"\nplots = \"figures\"\n");
+        sb.AppendLine($"[events]\nseries = \"similarity.nc\"\nquantity = \"ssim\"\nchangepoints = [\"pettitt\", \"pelt-mean\"]\nmin-segment = {minSegment.ToString(CultureInfo.InvariantCulture)}\nout = \"events.parquet\"\nplot = \"figures\"\n");
+        sb.AppendLine("[attribute]\nseries = \"similarity.nc\"\ntarget = \"global\"\nquantity = \"ssim\"\nout = \"attribution.parquet\"\nplot = \"figures\"\n");
         sb.AppendLine("[report]\ntitle = \"GridDrift demo: an invented regime shift\"\nout = \"report\"\ntruth = \"truth.json\"");
         return sb.ToString();
     }

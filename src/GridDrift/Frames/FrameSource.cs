@@ -76,7 +76,7 @@ public sealed class FrameSource : IDisposable
                 try
                 {
                     var v = reader.FindVariable(variable) ?? throw new BadInputException(path, variable,
-                        paths.Count > 1 ? $"missing here but present in {parts.FirstOrDefault()?.Reader.Path ?? "the other files"}"
+                        parts.Count > 0 ? $"missing here but present in {parts[0].Reader.Path}"
                             : "no such variable (the file has: " + string.Join(", ", reader.Variables.Select(x => x.Name)) + ")");
                     RawValues.RequireNumeric(path, v);
                     var fileAxes = VariableAxes.Discover(reader, v);

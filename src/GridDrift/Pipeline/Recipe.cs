@@ -3,6 +3,7 @@ using System.Text;
 using Tomlyn.Parsing;
 using Tomlyn.Syntax;
 using GridDrift.Results;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Pipeline;
 
@@ -26,16 +27,25 @@ public sealed class Recipe
         public required string Canonical { get; init; }
     }
 
+    /// <summary>The keys of each table: [input] and [report] have their own; every step's are its command's options (Workflows/Options).</summary>
     public static readonly IReadOnlyDictionary<string, string[]> Allowed = new Dictionary<string, string[]>
     {
         ["input"] = ["files", "variable", "regions", "out"],
-        ["stats"] = ["statistics", "min_valid", "out", "table"],
-        ["similarity"] = ["metrics", "range", "lag", "min_valid", "out", "table"],
-        ["climatology"] = ["by", "base", "smooth", "out"],
-        ["anomalies"] = ["kind", "fields", "out", "table"],
-        ["events"] = ["series", "quantity", "detect", "on", "window_days", "changepoints", "consensus", "min_segment", "out", "plots"],
-        ["attribute"] = ["series", "target", "quantity", "periods", "profiles", "out", "plots"],
+        ["stats"] = Names(StatsKeys.All),
+        ["similarity"] = Names(SimilarityKeys.All),
+        ["climatology"] = Names(ClimatologyKeys.All),
+        ["anomalies"] = Names(AnomaliesKeys.All),
+        ["events"] = Names(EventsKeys.All),
+        ["attribute"] = Names(AttributeKeys.All),
         ["report"] = ["title", "out", "truth"],
+    };
+
+    static string[] Names(IReadOnlyList<StepKey> keys) => keys.Select(k => k.Name).ToArray();
+
+    /// <summary>Keys of earlier recipes, now spelled as the command line's options.</summary>
+    static readonly IReadOnlyDictionary<string, string> Renamed = new Dictionary<string, string>
+    {
+        ["statistics"] = "stat", ["metrics"] = "metric", ["min_valid"] = "min-valid", ["window_days"] = "window", ["min_segment"] = "min-segment", ["plots"] = "plot",
     };
 
     public required string Path { get; init; }
@@ -50,12 +60,12 @@ public sealed class Recipe
         if (document.HasErrors)
         {
             var first = document.Diagnostics.First(d => d.Kind == DiagnosticMessageKind.Error);
-            throw new BadInputException(path, null, $"line {first.Span.Start.Line + 1}: {first.Message}");
+            throw BadInputException.InRecipe(path, first.Span.Start.Line + 1, "syntax", first.Message);
         }
         if (document.KeyValues.ChildrenCount > 0)
         {
             var kv = document.KeyValues.First();
-            throw new BadInputException(path, KeyName(kv.Key), $"line {Line(kv)}: keys belong in a table such as [input]");
+            throw BadInputException.InRecipe(path, Line(kv), KeyName(kv.Key), "keys belong in a table such as [input]");
         }
         var sections = new Dictionary<string, Section>();
         foreach (var table in document.Tables)
@@ -63,21 +73,25 @@ public sealed class Recipe
             string name = KeyName(table.Name);
             int line = table.Span.Start.Line + 1;
             if (table is TableArraySyntax || !Allowed.TryGetValue(name, out var allowed))
-                throw new BadInputException(path, name, $"line {line}: unknown table [{name}] (known: {string.Join(", ", Allowed.Keys.Select(k => $"[{k}]"))})");
-            if (sections.ContainsKey(name)) throw new BadInputException(path, name, $"line {line}: [{name}] appears twice");
+                throw BadInputException.InRecipe(path, line, $"[{name}]", "unknown table" + (NearestName.Of(name, Allowed.Keys) is { } near ? $" (did you mean [{near}]?)" : "") +
+                    $"; known: {string.Join(", ", Allowed.Keys.Select(k => $"[{k}]"))}");
+            if (sections.ContainsKey(name)) throw BadInputException.InRecipe(path, line, $"[{name}]", "the table appears twice");
             var keys = new Dictionary<string, Value>();
             var canonical = new StringBuilder();
             foreach (var kv in table.Items)
             {
                 string key = KeyName(kv.Key);
                 if (!allowed.Contains(key))
-                    throw new BadInputException(path, $"{name}.{key}", $"line {Line(kv)}: unknown key (known in [{name}]: {string.Join(", ", allowed)})");
+                    throw BadInputException.InRecipe(path, Line(kv), $"{name}.{key}", "unknown key" +
+                        (Renamed.TryGetValue(key, out var now) && allowed.Contains(now) ? $" (now '{now}', as the command line's --{now})"
+                            : NearestName.Of(key, allowed) is { } near ? $" (did you mean '{near}'?)" : "") +
+                        $"; known in [{name}]: {string.Join(", ", allowed)}");
                 keys[key] = new Value(Convert(path, name, key, kv.Value, Line(kv)), Line(kv));
                 canonical.Append(key).Append('=').Append(kv.Value?.ToString()?.Trim()).Append('\n');
             }
             sections[name] = new Section { Name = name, Line = line, Keys = keys, Canonical = canonical.ToString() };
         }
-        if (!sections.ContainsKey("input")) throw new BadInputException(path, "input", "line 1: the recipe needs an [input] table");
+        if (!sections.ContainsKey("input")) throw BadInputException.InRecipe(path, 1, "[input]", "the recipe needs an [input] table");
         return new Recipe { Path = System.IO.Path.GetFullPath(path), Folder = System.IO.Path.GetDirectoryName(System.IO.Path.GetFullPath(path))!, Sections = sections };
     }
 
@@ -92,18 +106,30 @@ public sealed class Recipe
         FloatValueSyntax f => f.Value,
         BooleanValueSyntax b => b.Value,
         ArraySyntax a => a.Items.Select(item => item.Value is StringValueSyntax s ? s.Value ?? ""
-            : throw new BadInputException(path, $"{table}.{key}", $"line {line}: lists hold text only, e.g. [\"mean\", \"std\"]")).ToArray(),
-        _ => throw new BadInputException(path, $"{table}.{key}", $"line {line}: a value of this kind is not used here"),
+            : throw BadInputException.InRecipe(path, line, $"{table}.{key}", "lists hold text only, e.g. [\"mean\", \"std\"]")).ToArray(),
+        _ => throw BadInputException.InRecipe(path, line, $"{table}.{key}", "a value of this kind is not used here"),
     };
 
     public bool Has(string section) => Sections.ContainsKey(section);
+
+    /// <summary>A step's option: the key's default when absent, else the value checked as the command line checks it.</summary>
+    public T Get<T>(string section, StepKey<T> key)
+    {
+        if (!Sections.TryGetValue(section, out var s) || !s.Keys.TryGetValue(key.Name, out var v)) return key.Default;
+        try { return (T)key.FromRecipe(v.Data); }
+        catch (FormatException e) { throw BadInputException.InRecipe(Path, v.Line, $"{section}.{key.Name}", e.Message); }
+    }
+
+    /// <summary>The line of a key, or of its table when the key is absent.</summary>
+    public int LineOf(string section, string? key = null) =>
+        key is not null && Sections[section].Keys.TryGetValue(key, out var v) ? v.Line : Sections[section].Line;
 
     public string Text(string section, string key, string? fallback = null)
     {
         var s = Sections[section];
         if (!s.Keys.TryGetValue(key, out var v))
-            return fallback ?? throw new BadInputException(Path, $"{section}.{key}", $"line {s.Line}: [{section}] needs '{key}'");
-        return v.Data as string ?? throw new BadInputException(Path, $"{section}.{key}", $"line {v.Line}: should be text in quotes");
+            return fallback ?? throw BadInputException.InRecipe(Path, s.Line, $"{section}.{key}", $"[{section}] needs '{key}'");
+        return v.Data as string ?? throw BadInputException.InRecipe(Path, v.Line, $"{section}.{key}", $"should be text in quotes");
     }
 
     public string? OptionalText(string section, string key) => Sections[section].Keys.ContainsKey(key) ? Text(section, key) : null;
@@ -112,20 +138,20 @@ public sealed class Recipe
     {
         var s = Sections[section];
         if (!s.Keys.TryGetValue(key, out var v))
-            return fallback ?? throw new BadInputException(Path, $"{section}.{key}", $"line {s.Line}: [{section}] needs '{key}'");
-        return v.Data as string[] ?? (v.Data is string one ? [one] : throw new BadInputException(Path, $"{section}.{key}", $"line {v.Line}: should be a list of text"));
+            return fallback ?? throw BadInputException.InRecipe(Path, s.Line, $"{section}.{key}", $"[{section}] needs '{key}'");
+        return v.Data as string[] ?? (v.Data is string one ? [one] : throw BadInputException.InRecipe(Path, v.Line, $"{section}.{key}", $"should be a list of text"));
     }
 
     public double Number(string section, string key, double fallback)
     {
         if (!Sections[section].Keys.TryGetValue(key, out var v)) return fallback;
-        return v.Data is double d ? d : throw new BadInputException(Path, $"{section}.{key}", $"line {v.Line}: should be a number");
+        return v.Data is double d ? d : throw BadInputException.InRecipe(Path, v.Line, $"{section}.{key}", $"should be a number");
     }
 
     public bool Flag(string section, string key, bool fallback)
     {
         if (!Sections[section].Keys.TryGetValue(key, out var v)) return fallback;
-        return v.Data is bool b ? b : throw new BadInputException(Path, $"{section}.{key}", $"line {v.Line}: should be true or false");
+        return v.Data is bool b ? b : throw BadInputException.InRecipe(Path, v.Line, $"{section}.{key}", $"should be true or false");
     }
 
     /// <summary>Fingerprint of a step: its own section, the [input] table it reads and the GridDrift version that ran it.</summary>

@@ -2,10 +2,12 @@ using System.Globalization;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using GridDrift.Operators.Climatology;
+using GridDrift.Formats;
 using GridDrift.Frames;
 using GridDrift.Operators.Similarity;
 using GridDrift.Operators.Statistics;
 using GridDrift.Workflows;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Pipeline;
 
@@ -22,16 +24,36 @@ public sealed record StepOutcome(string Step, bool Skipped, IReadOnlyList<string
 /// </summary>
 public static class RecipeRunner
 {
-    public static readonly string[] Order = ["stats", "similarity", "climatology", "anomalies", "events", "attribute", "report"];
+    /// <summary>A step of a recipe: its table's name, whether a shard runs it on its slice, what it does, and what can be checked before anything runs.</summary>
+    sealed record RecipeStep(string Name, bool Sharded, Func<StepContext, JsonObject> Run, Action<Recipe> Check);
+
+    /// <summary>What a step runs with.</summary>
+    sealed record StepContext(Recipe Recipe, IReadOnlyList<string> Inputs, string Variable, string[] Regions, string[] StepInputs, string[] Outputs, string How,
+        FrameSlice? Slice, Func<string, string> Product, Func<string, string> Resolve, IReadOnlyList<StepOutcome> Earlier);
+
+    /// <summary>The steps in the order they run.</summary>
+    static readonly RecipeStep[] Steps =
+    [
+        new("stats", true, RunStats, CheckStats),
+        new("similarity", true, RunSimilarity, CheckSimilarity),
+        new("climatology", true, RunClimatology, CheckClimatology),
+        new("anomalies", true, RunAnomalies, CheckAnomalies),
+        new("events", false, RunEvents, CheckEvents),
+        new("attribute", false, RunAttribute, CheckAttribute),
+        new("report", false, c => RunReport.Write(c.Recipe, c.Earlier, c.Inputs, c.Outputs, c.Recipe.OptionalText("report", "truth") is { } t ? c.Resolve(t) : null, c.Product),
+            r => { if (r.OptionalText("report", "truth") is { } t && !File.Exists(InFolder(r, t))) throw BadInputException.InRecipe(r.Path, r.LineOf("report", "truth"), "report.truth", $"no such file: {t}"); }),
+    ];
+
+    public static readonly string[] Order = Steps.Select(s => s.Name).ToArray();
 
     /// <summary>The steps a shard runs: each reads only its slice of the record (and, for pairs, the frames just before it).</summary>
-    public static readonly string[] Sharded = ["stats", "similarity", "climatology", "anomalies"];
+    public static readonly string[] Sharded = Steps.Where(s => s.Sharded).Select(s => s.Name).ToArray();
 
     public static IReadOnlyList<StepOutcome> Run(string recipePath, Action<string>? log = null, string command = "griddrift run", ShardSpec? shard = null)
     {
         var recipe = Recipe.Load(recipePath);
         string Resolve(string p) => InFolder(recipe, p);
-        var inputs = Inputs(recipe);
+        var inputs = Check(recipe);
         string variable = recipe.Text("input", "variable");
         var regions = recipe.List("input", "regions", ["global"]);
         string mainDir = OutFolder(recipe);
@@ -46,8 +68,9 @@ public static class RecipeRunner
         if (shard is { } spec) slice = ShardManifest.Begin(recipe, spec, inputs, variable, outDir);
         var outcomes = new List<StepOutcome>();
 
-        foreach (var step in Order.Where(recipe.Has))
+        foreach (var registered in Steps.Where(s => recipe.Has(s.Name)))
         {
+            string step = registered.Name;
             string how = $"{command} {recipePath} [{step}]";
             if (shard is not null && !Sharded.Contains(step))
             {
@@ -70,25 +93,35 @@ public static class RecipeRunner
                 continue;
             }
             var clock = System.Diagnostics.Stopwatch.StartNew();
-            var summary = step switch
-            {
-                "stats" => RunStats(recipe, inputs, variable, regions, outputs, how, slice),
-                "similarity" => RunSimilarity(recipe, inputs, variable, regions, outputs, how, slice),
-                "climatology" => RunClimatology(recipe, inputs, variable, outputs, how, slice),
-                "anomalies" => RunAnomalies(recipe, inputs, variable, regions, stepInputs[^1], outputs, how, slice),
-                "events" => EventsStep.Run(new EventsOptions(stepInputs[0], outputs[0], recipe.OptionalText("events", "quantity"), null, EventsAnalysis(recipe), how,
-                    recipe.OptionalText("events", "plots") is { } ep ? Product(ep) : null)).Json,
-                "attribute" => AttributeStep.Run(new AttributeOptions(stepInputs[0], recipe.Text("attribute", "target", "global"), outputs[0],
-                    recipe.OptionalText("attribute", "quantity"), recipe.OptionalText("attribute", "periods"), recipe.List("attribute", "profiles", []), how,
-                    recipe.OptionalText("attribute", "plots") is { } ap ? Product(ap) : null)).Json,
-                _ => RunReport.Write(recipe, outcomes, inputs, outputs, recipe.OptionalText("report", "truth") is { } t ? Resolve(t) : null, Product),
-            };
+            var summary = registered.Run(new StepContext(recipe, inputs, variable, regions, stepInputs, outputs, how, slice, Product, Resolve, outcomes));
             var done = new StepOutcome(step, false, outputs, summary, clock.Elapsed);
             outcomes.Add(done);
             WriteCheckpoint(checkpoint, fingerprint, outputs, summary);
             log?.Invoke($"{step}: done in {clock.Elapsed.TotalSeconds:0.0} s");
         }
         return outcomes;
+    }
+
+    /// <summary>
+    /// Everything about a recipe that can be checked without computing, before the first step
+    /// runs: every key's value and range (as the command line checks them), the input files, the
+    /// variable in the first of them, the regions, and what each step needs of the others. A fault
+    /// names the recipe, the line and the key. Gives the input files.
+    /// </summary>
+    public static IReadOnlyList<string> Check(Recipe recipe)
+    {
+        var inputs = Inputs(recipe);
+        int inputLine = recipe.LineOf("input", "files");
+        if (inputs.Count == 0) throw BadInputException.InRecipe(recipe.Path, inputLine, "input.files", "matches no file");
+        string variable = recipe.Text("input", "variable");
+        using (var first = DatasetFiles.Open(inputs[0]))
+            if (first.FindVariable(variable) is null)
+                throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "variable"), "input.variable",
+                    $"{inputs[0]} has no variable '{variable}' (it has: {string.Join(", ", first.Variables.Select(v => v.Name))})");
+        try { GridDrift.Regions.RegionSpecs.ParseInput(recipe.List("input", "regions", ["global"])); }
+        catch (BadInputException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "regions"), "input.regions", e.Fault); }
+        foreach (var step in Steps.Where(s => recipe.Has(s.Name))) step.Check(recipe);
+        return inputs;
     }
 
     /// <summary>A path of the recipe: as it is when absolute, else relative to the recipe's folder.</summary>
@@ -118,42 +151,41 @@ public static class RecipeRunner
         Func<string, string>? mainProduct)
     {
         string Out(string section, string fallback) => product(r.OptionalText(section, "out") ?? fallback);
-        string Stem(string path, string suffix) => Path.Combine(Path.GetDirectoryName(path)!, Path.GetFileNameWithoutExtension(path) + suffix);
         switch (step)
         {
             case "stats":
             case "similarity":
             {
-                string o = Out(step, step + ".nc");
+                string o = Out(step, step == "stats" ? ProductNames.Stats : ProductNames.Similarity);
                 var outs = new List<string> { o };
                 if (r.OptionalText(step, "table") is { } t) outs.Add(product(t));
                 return (inputs.ToArray(), outs.ToArray());
             }
             case "climatology":
-                return (inputs.ToArray(), [Out(step, "climatology.nc")]);
+                return (inputs.ToArray(), [Out(step, ProductNames.Climatology)]);
             case "anomalies":
             {
-                string clim = r.Has("climatology") ? (mainProduct ?? product)(r.OptionalText("climatology", "out") ?? "climatology.nc")
-                    : throw new BadInputException(r.Path, "anomalies", $"line {r.Sections["anomalies"].Line}: [anomalies] needs a [climatology] step");
-                string o = Out(step, "anomalies.nc");
+                string clim = r.Has("climatology") ? (mainProduct ?? product)(r.OptionalText("climatology", "out") ?? ProductNames.Climatology)
+                    : throw BadInputException.InRecipe(r.Path, r.LineOf("anomalies"), "[anomalies]", "needs a [climatology] step");
+                string o = Out(step, ProductNames.Anomalies);
                 var outs = new List<string> { o };
                 if (r.OptionalText(step, "table") is { } t) outs.Add(product(t));
-                if (r.Flag(step, "fields", false)) outs.Add(Stem(o, "_fields.nc"));
+                if (r.Get(step, AnomaliesKeys.Fields)) outs.Add(ProductNames.Beside(o, ProductNames.Fields));
                 return (inputs.Append(clim).ToArray(), outs.ToArray());
             }
             case "events":
             case "attribute":
             {
                 string series = product(r.Text(step, "series"));
-                string o = Out(step, step + ".parquet");
+                string o = Out(step, step == "events" ? ProductNames.Events : ProductNames.Attribution);
                 var outs = step == "events"
-                    ? new[] { o, Stem(o, "_counts.parquet"), Stem(o, "_trends.parquet"), Stem(o, "_changepoints.parquet") }
-                    : new[] { o, Stem(o, "_shapley.parquet") };
+                    ? new[] { o, ProductNames.Beside(o, ProductNames.Counts), ProductNames.Beside(o, ProductNames.Trends), ProductNames.Beside(o, ProductNames.ChangePoints) }
+                    : new[] { o, ProductNames.Beside(o, ProductNames.Shapley) };
                 return ([series], outs);
             }
             default:
             {
-                string o = Out("report", "report");
+                string o = Out("report", ProductNames.Report);
                 var earlier = Order.Where(s => s != "report" && r.Has(s)).SelectMany(s => Plan(r, s, inputs, product, resolve, null).Outputs).ToArray();
                 return (earlier, [o + ".md", o + ".html"]);
             }
@@ -183,68 +215,111 @@ public static class RecipeRunner
         GridDrift.Outputs.AtomicFile.WriteAllText(path, json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
     }
 
-    static JsonObject RunStats(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string[] outputs, string how, FrameSlice? slice)
+    static void CheckKeys(Recipe r, string section, IReadOnlyList<StepKey> keys)
     {
-        var statistics = r.List("stats", "statistics", ["mean", "std", "valid"]).Select(RegionStatistics.Parse).Distinct().ToArray();
-        var s = StatsStep.Run(new StatsOptions(inputs, variable, regions, statistics, outputs[0], outputs.Length > 1 ? outputs[1] : null,
-            r.Number("stats", "min_valid", 0.5), Command: how, Slice: slice));
+        foreach (var key in keys)
+            if (r.Sections[section].Keys.TryGetValue(key.Name, out var v))
+                try { key.FromRecipe(v.Data); }
+                catch (FormatException e) { throw BadInputException.InRecipe(r.Path, v.Line, $"{section}.{key.Name}", e.Message); }
+    }
+
+    static void CheckStats(Recipe r) => CheckKeys(r, "stats", StatsKeys.All);
+
+    static void CheckSimilarity(Recipe r) => CheckKeys(r, "similarity", SimilarityKeys.All);
+
+    static void CheckClimatology(Recipe r)
+    {
+        CheckKeys(r, "climatology", ClimatologyKeys.All);
+        if (r.Get("climatology", ClimatologyKeys.Smooth) is not null && r.Get("climatology", ClimatologyKeys.By) != "day-of-year")
+            throw BadInputException.InRecipe(r.Path, r.LineOf("climatology", "smooth"), "climatology.smooth", "smoothing applies to day-of-year climatologies");
+    }
+
+    static void CheckAnomalies(Recipe r)
+    {
+        CheckKeys(r, "anomalies", AnomaliesKeys.All);
+        if (!r.Has("climatology")) throw BadInputException.InRecipe(r.Path, r.LineOf("anomalies"), "[anomalies]", "needs a [climatology] step");
+    }
+
+    static void CheckEvents(Recipe r)
+    {
+        CheckKeys(r, "events", EventsKeys.All);
+        CheckSeries(r, "events");
+    }
+
+    static void CheckAttribute(Recipe r)
+    {
+        CheckKeys(r, "attribute", AttributeKeys.All);
+        CheckSeries(r, "attribute");
+    }
+
+    /// <summary>The series an analysis step reads must be a product of an earlier step of the recipe, or an existing file.</summary>
+    static void CheckSeries(Recipe r, string section)
+    {
+        string series = r.Text(section, "series");
+        var earlier = Order.TakeWhile(s => s != section).Where(s => s != "report" && r.Has(s))
+            .SelectMany(s => Plan(r, s, [], name => name, name => name, null).Outputs).Select(Path.GetFileName).ToHashSet();
+        if (!earlier.Contains(Path.GetFileName(series)) && !File.Exists(Path.Combine(OutFolder(r), series)))
+            throw BadInputException.InRecipe(r.Path, r.LineOf(section, "series"), $"{section}.series",
+                $"'{series}' is neither a product of an earlier step ({string.Join(", ", earlier.Order())}) nor an existing file");
+    }
+
+    static JsonObject RunStats(StepContext c)
+    {
+        var r = c.Recipe;
+        var statistics = StatsKeys.Statistics(r.Get("stats", StatsKeys.Stat));
+        var s = StatsStep.Run(new StatsOptions(c.Inputs, c.Variable, c.Regions, statistics, c.Outputs[0], c.Outputs.Length > 1 ? c.Outputs[1] : null,
+            r.Get("stats", CommonKeys.MinValid), Command: c.How, Slice: c.Slice));
         return new JsonObject { ["frames"] = s.Frames, ["regions"] = s.Regions };
     }
 
-    static JsonObject RunSimilarity(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string[] outputs, string how, FrameSlice? slice)
+    static JsonObject RunSimilarity(StepContext c)
     {
-        var metrics = r.List("similarity", "metrics", ["ssim", "corr", "rmsd", "mean-abs-change"]).Select(SimilarityMetrics.Parse).Distinct().ToArray();
-        var s = SimilarityStep.Run(new SimilarityOptions(inputs, variable, regions, metrics, outputs[0], outputs.Length > 1 ? outputs[1] : null,
-            (int)r.Number("similarity", "lag", 1), r.OptionalText("similarity", "range"), MinValid: r.Number("similarity", "min_valid", 0.5), Command: how, Slice: slice));
+        var r = c.Recipe;
+        var metrics = SimilarityKeys.Metrics(r.Get("similarity", SimilarityKeys.Metric));
+        var s = SimilarityStep.Run(new SimilarityOptions(c.Inputs, c.Variable, c.Regions, metrics, c.Outputs[0], c.Outputs.Length > 1 ? c.Outputs[1] : null,
+            r.Get("similarity", SimilarityKeys.Lag), r.Get("similarity", SimilarityKeys.Range), r.Get("similarity", SimilarityKeys.AcrossGaps),
+            MinValid: r.Get("similarity", CommonKeys.MinValid), Command: c.How, Slice: c.Slice));
         return new JsonObject { ["pairs"] = s.Pairs, ["regions"] = s.Regions };
     }
 
-    internal static ClimatologyKind ClimatologyKindOf(Recipe r)
-    {
-        string byText = r.Text("climatology", "by", "month");
-        return ClimatologyKinds.Parse(byText) ?? throw new BadInputException(r.Path, "climatology.by", $"'{byText}' is not month, day-of-year or hour-by-month");
-    }
+    internal static ClimatologyKind ClimatologyKindOf(Recipe r) => ClimatologyKeys.Kind(r.Get("climatology", ClimatologyKeys.By));
 
     internal static JsonObject ClimatologySummaryJson(ClimatologySummary s) =>
         new() { ["frames"] = s.FramesUsed, ["slots"] = s.Slots, ["base"] = s.Base.ToIsoString(), ["warnings"] = new JsonArray(s.Warnings.Select(w => (JsonNode)w).ToArray()) };
 
-    static JsonObject RunClimatology(Recipe r, IReadOnlyList<string> inputs, string variable, string[] outputs, string how, FrameSlice? slice)
+    static JsonObject RunClimatology(StepContext c)
     {
-        var s = ClimatologyStep.Run(new ClimatologyOptions(inputs, variable, ClimatologyKindOf(r), outputs[0], r.OptionalText("climatology", "base"), r.OptionalText("climatology", "smooth"),
-            Command: how, Slice: slice, PartialOut: slice is null ? null : outputs[0]));
+        var r = c.Recipe;
+        var s = ClimatologyStep.Run(new ClimatologyOptions(c.Inputs, c.Variable, ClimatologyKindOf(r), c.Outputs[0], r.Get("climatology", ClimatologyKeys.Base),
+            r.Get("climatology", ClimatologyKeys.Smooth), Command: c.How, Slice: c.Slice, PartialOut: c.Slice is null ? null : c.Outputs[0]));
         return ClimatologySummaryJson(s);
     }
 
-    static JsonObject RunAnomalies(Recipe r, IReadOnlyList<string> inputs, string variable, string[] regions, string climatology, string[] outputs, string how, FrameSlice? slice)
+    static JsonObject RunAnomalies(StepContext c)
     {
-        string kindText = r.Text("anomalies", "kind", "absolute");
-        var kind = Anomaly.Parse(kindText) ?? throw new BadInputException(r.Path, "anomalies.kind", $"'{kindText}' is not absolute, relative or standardized");
-        string? table = outputs.Skip(1).FirstOrDefault(o => o.EndsWith(".parquet", StringComparison.Ordinal));
-        string? fields = outputs.Skip(1).FirstOrDefault(o => o.EndsWith("_fields.nc", StringComparison.Ordinal));
-        var s = AnomaliesStep.Run(new AnomaliesOptions(inputs, variable, climatology, kind, fields, regions, table, outputs[0], Command: how, Slice: slice));
+        var r = c.Recipe;
+        var kind = AnomaliesKeys.KindOf(r.Get("anomalies", AnomaliesKeys.Kind));
+        string? table = c.Outputs.Skip(1).FirstOrDefault(o => o.EndsWith(".parquet", StringComparison.Ordinal));
+        string? fields = c.Outputs.Skip(1).FirstOrDefault(o => o.EndsWith(ProductNames.Fields, StringComparison.Ordinal));
+        var s = AnomaliesStep.Run(new AnomaliesOptions(c.Inputs, c.Variable, c.StepInputs[^1], kind, fields, c.Regions, table, c.Outputs[0],
+            r.Get("anomalies", CommonKeys.MinValid), Command: c.How, Slice: c.Slice));
         return new JsonObject { ["frames"] = s.Frames };
     }
 
-    static GridDrift.Analysis.SeriesAnalysisOptions EventsAnalysis(Recipe r)
+    static JsonObject RunEvents(StepContext c)
     {
-        var d = EventsStep.Defaults;
-        T[] Parsed<T>(string key, Func<string, IEnumerable<T>> parse)
-        {
-            try { return r.List("events", key, []).SelectMany(parse).Distinct().ToArray(); }
-            catch (FormatException e) { throw new BadInputException(r.Path, $"events.{key}", $"line {r.Sections["events"].Keys[key].Line}: {e.Message}"); }
-        }
-        var detectors = Parsed<GridDrift.Analysis.Detector>("detect", x => [EventsStep.ParseDetector(x)]);
-        var methods = Parsed<GridDrift.Analysis.ChangeMethod>("changepoints", EventsStep.ParseChangeMethods);
-        string on = r.Text("events", "on", "raw");
-        return d with
-        {
-            Detectors = detectors.Length > 0 ? detectors : d.Detectors,
-            ChangeMethods = methods.Length > 0 ? methods : d.ChangeMethods,
-            OnResiduals = on == "residuals" ? true : on == "raw" ? false : throw new BadInputException(r.Path, "events.on", $"line {r.Sections["events"].Keys["on"].Line}: choose raw or residuals"),
-            WindowDays = r.Number("events", "window_days", d.WindowDays),
-            Consensus = (int)r.Number("events", "consensus", d.Consensus),
-            MinSegment = (int)r.Number("events", "min_segment", d.MinSegment),
-        };
+        var r = c.Recipe;
+        var analysis = EventsAnalysis.From(r.Get("events", EventsKeys.Detect), r.Get("events", EventsKeys.On), r.Get("events", EventsKeys.Window),
+            r.Get("events", EventsKeys.Changepoints), r.Get("events", EventsKeys.Consensus), r.Get("events", EventsKeys.MinSegment));
+        return EventsStep.Run(new EventsOptions(c.StepInputs[0], c.Outputs[0], r.Get("events", CommonKeys.Quantity), null, analysis, c.How,
+            r.Get("events", CommonKeys.Plot) is { } plots ? c.Product(plots) : null)).Json;
     }
 
+    static JsonObject RunAttribute(StepContext c)
+    {
+        var r = c.Recipe;
+        return AttributeStep.Run(new AttributeOptions(c.StepInputs[0], r.Get("attribute", AttributeKeys.Target), c.Outputs[0], r.Get("attribute", CommonKeys.Quantity),
+            r.Get("attribute", AttributeKeys.Periods), r.Get("attribute", AttributeKeys.Profiles), c.How,
+            r.Get("attribute", CommonKeys.Plot) is { } plots ? c.Product(plots) : null)).Json;
+    }
 }

@@ -3,6 +3,7 @@ using GridDrift.Outputs.Fields;
 using GridDrift.Outputs.Series;
 using GridDrift.Results;
 using GridDrift.Workflows;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Pipeline;
 
@@ -86,10 +87,10 @@ public static class ShardGather
                 // the one-machine product's inputs: the record, and for anomalies the climatology after it
                 var productInputs = step == "anomalies" ? inputs.Append(RecipeRunner.Products(recipe, "climatology", mainDir)[0]).ToList() : inputs;
                 var joined = SeriesPieces.Join(pieces.Select(p => p.Outputs![0]).ToList(), outputs[0], table, variable, how, productInputs, shardsAttribute);
-                if (outputs.FirstOrDefault(o => o.EndsWith("_fields.nc", StringComparison.Ordinal)) is { } fields)
+                if (outputs.FirstOrDefault(o => o.EndsWith(ProductNames.Fields, StringComparison.Ordinal)) is { } fields)
                 {
                     var provenance = new Provenance(how, joined.InputFiles, joined.InputSha256, DateTime.UtcNow);
-                    FieldPieces.Join(pieces.Select(p => p.Outputs!.First(o => o.EndsWith("_fields.nc", StringComparison.Ordinal))).ToList(), fields, provenance.AsKeyValues(shardsAttribute));
+                    FieldPieces.Join(pieces.Select(p => p.Outputs!.First(o => o.EndsWith(ProductNames.Fields, StringComparison.Ordinal))).ToList(), fields, provenance.AsKeyValues(shardsAttribute));
                 }
                 summary = step switch
                 {

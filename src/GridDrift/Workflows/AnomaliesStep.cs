@@ -12,6 +12,7 @@ using GridDrift.Regions;
 using GridDrift.Operators.Statistics;
 using GridDrift.Results;
 using GridDrift.Products;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Workflows;
 
@@ -99,16 +100,11 @@ public static class AnomaliesStep
             ClassicWriter.Definition? time = null, data = null;
             if (w is not null)
             {
-                time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
-                [
-                    NcAttribute.Text("standard_name", "time"), NcAttribute.Text("long_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text),
-                    NcAttribute.Text("calendar", calendarAttribute), NcAttribute.Text("axis", "T"),
-                ]);
-                data = w.Writer.AddVariable(o.Variable, NcType.Float, w.FieldDimensions(), template.DataAttributes
+                time = w.DefineTime(source.TimeUnits, calendarAttribute).Time;
+                data = w.DefineField(o.Variable, template.DataAttributes
                     .Where(a => a.Name is "coordinates" or "grid_mapping")
                     .Append(NcAttribute.Text("long_name", longName))
-                    .Append(NcAttribute.Text("units", anomalyUnits))
-                    .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
+                    .Append(NcAttribute.Text("units", anomalyUnits)));
                 w.EndDefinitions();
             }
             var slice = o.Slice ?? FrameSlice.Whole(source.FrameCount);
@@ -129,5 +125,5 @@ public static class AnomaliesStep
 
     /// <summary>Where the region series go without --series: OUT_series.nc beside the fields.</summary>
     public static string DefaultSeriesPath(string output) =>
-        Path.Combine(Path.GetDirectoryName(Path.GetFullPath(output))!, Path.GetFileNameWithoutExtension(output) + "_series.nc");
+        ProductNames.Beside(output, ProductNames.Series);
 }

@@ -7,6 +7,7 @@ using GridDrift.Outputs.Series;
 using GridDrift.Outputs.Tables;
 using GridDrift.Results;
 using GridDrift.Products;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Workflows;
 
@@ -132,12 +133,11 @@ public static class AttributeStep
             ["importance"] = "permutation importance (Breiman 2001): rise in mean squared error, 10 shuffles; Shapley values of the linear model phi_j = beta_j (x_j - E x_j)",
             ["periods"] = how,
         });
-        string stem = Path.Combine(Path.GetDirectoryName(Path.GetFullPath(o.Output))!, Path.GetFileNameWithoutExtension(o.Output));
-        var tables = new List<string> { o.Output, stem + "_shapley.parquet" };
+        var tables = new List<string> { o.Output, ProductNames.Beside(o.Output, ProductNames.Shapley) };
         importance.Write(o.Output, metadata);
         shapley.Write(tables[1], metadata);
-        if (ranks.Count > 0) { tables.Add(stem + "_ranks.parquet"); ranks.Write(tables[^1], metadata); }
-        if (profiles.Count > 0) { tables.Add(stem + "_profiles.parquet"); profiles.Write(tables[^1], metadata); }
+        if (ranks.Count > 0) { tables.Add(ProductNames.Beside(o.Output, ProductNames.Ranks)); ranks.Write(tables[^1], metadata); }
+        if (profiles.Count > 0) { tables.Add(ProductNames.Beside(o.Output, ProductNames.Profiles)); profiles.Write(tables[^1], metadata); }
         var json = new JsonObject
         {
             ["input"] = o.Input, ["target"] = o.Target, ["quantity"] = quantity,

@@ -74,13 +74,11 @@ public static class DeriveStep
                     (surface is null ? "the column ends at the deepest level" : $"bounded by the surface pressure {o.SurfacePressure}: levels below the surface excluded, the cut layer ends at the surface with q interpolated linearly in pressure"),
             });
             using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, globals);
-            var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
-                [NcAttribute.Text("standard_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text), NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T")]);
-            var tcwv = w.Writer.AddVariable("tcwv", NcType.Float, w.FieldDimensions(), template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping")
+            var (time, _) = w.DefineTime(source.TimeUnits, calendar);
+            var tcwv = w.DefineField("tcwv", template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping")
                 .Append(NcAttribute.Text("standard_name", "atmosphere_mass_content_of_water_vapor"))
                 .Append(NcAttribute.Text("long_name", $"total column water vapour from {variable}"))
-                .Append(NcAttribute.Text("units", o.Units ?? "kg m-2"))
-                .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
+                .Append(NcAttribute.Text("units", o.Units ?? "kg m-2")));
             w.EndDefinitions();
             var outUnits = o.Units is null ? null : Converter("kg m-2", o.Units, o.Output, "tcwv");
             var sources = surface is null ? new[] { source } : [source, surface];
@@ -147,13 +145,11 @@ public static class DeriveStep
                     "; e_s over liquid water by Bolton (1980) eq. 10, 6.112 exp(17.67 T / (T + 243.5)) hPa, T in degC, within 0.1 % for -30 to 35 degC",
             });
             using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, globals);
-            var time = w.Writer.AddVariable("time", NcType.Double, [w.Time],
-                [NcAttribute.Text("standard_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text), NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T")]);
-            var output = w.Writer.AddVariable(name, NcType.Float, w.FieldDimensions(), template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping")
+            var (time, _) = w.DefineTime(source.TimeUnits, calendar);
+            var output = w.DefineField(name, template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping")
                 .Append(NcAttribute.Text("standard_name", rh ? "relative_humidity" : "specific_humidity"))
                 .Append(NcAttribute.Text("long_name", rh ? "relative humidity over liquid water" : $"specific humidity from the dew point {variable}"))
-                .Append(NcAttribute.Text("units", o.Units ?? (rh ? "%" : "kg kg-1")))
-                .Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
+                .Append(NcAttribute.Text("units", o.Units ?? (rh ? "%" : "kg kg-1"))));
             w.EndDefinitions();
             var outUnits = o.Units is null ? null : Converter(rh ? "%" : "kg kg-1", o.Units, o.Output, name);
             var sources = new List<FrameSource> { source };

@@ -8,6 +8,7 @@ using GridDrift.Outputs.Series;
 using GridDrift.Outputs.Tables;
 using GridDrift.Results;
 using GridDrift.Products;
+using GridDrift.Workflows.Options;
 
 namespace GridDrift.Workflows;
 
@@ -124,8 +125,8 @@ public static class EventsStep
             ["slope_units"] = (units == "" ? "quantity" : units) + " per day",
             ["calendar"] = times[0].Calendar.CfName(),
         });
-        string stem = Path.Combine(Path.GetDirectoryName(Path.GetFullPath(o.Output))!, Path.GetFileNameWithoutExtension(o.Output));
-        string countsPath = stem + "_counts.parquet", trendsPath = stem + "_trends.parquet", changesPath = stem + "_changepoints.parquet";
+        string countsPath = ProductNames.Beside(o.Output, ProductNames.Counts), trendsPath = ProductNames.Beside(o.Output, ProductNames.Trends),
+            changesPath = ProductNames.Beside(o.Output, ProductNames.ChangePoints);
         flags.Write(o.Output, metadata);
         counts.Write(countsPath, metadata);
         trends.Write(trendsPath, metadata);

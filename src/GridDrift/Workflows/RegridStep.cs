@@ -81,16 +81,12 @@ public static class RegridStep
             ["resampling"] = resampling == Resampling.None ? "none" : $"{(resampling == Resampling.Hours ? $"{periodHours}-hourly" : resampling.ToString().ToLowerInvariant())} means of the frames in each period",
         });
         using var w = new FieldNetCdfWriter(o.Output, template, -1, o.Format, globals);
-        var timeAttributes = new List<NcAttribute> { NcAttribute.Text("standard_name", "time"), NcAttribute.Text("units", source.TimeUnits.Text), NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T") };
-        if (resampling != Resampling.None) timeAttributes.Add(NcAttribute.Text("bounds", "time_bnds"));
-        var time = w.Writer.AddVariable("time", NcType.Double, [w.Time], timeAttributes);
-        var bounds = resampling == Resampling.None ? null : w.Writer.AddVariable("time_bnds", NcType.Double, [w.Time, w.AddDimension("nv", 2)]);
+        var (time, bounds) = w.DefineTime(source.TimeUnits, calendar, withBounds: resampling != Resampling.None);
         var attributes = template.DataAttributes.ToList();
         string methods = (o.Method == "conservative" ? "area: mean" : "") + (resampling == Resampling.None ? "" : " time: mean");
         if (methods.Trim().Length > 0) attributes.Add(NcAttribute.Text("cell_methods", methods.Trim()));
         attributes.Add(NcAttribute.Text("ancillary_variables", o.Variable + "_covered_fraction"));
-        attributes.Add(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill));
-        var values = w.Writer.AddVariable(o.Variable, NcType.Float, w.FieldDimensions(), attributes);
+        var values = w.DefineField(o.Variable, attributes);
         var fraction = w.Writer.AddVariable(o.Variable + "_covered_fraction", NcType.Float, w.FieldDimensions(),
             [NcAttribute.Text("long_name", o.Method == "conservative" ? "fraction of the target cell's area covered by valid source cells" : "valid share of the interpolation weight"), NcAttribute.Text("units", "1")]);
         w.EndDefinitions();

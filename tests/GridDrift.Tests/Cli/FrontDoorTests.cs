@@ -98,5 +98,5 @@ public class FrontDoorTests
     [InlineData("--varr", "--var", 1)]
     [InlineData("ab", "ba", 1)] // one swap of neighbours (optimal string alignment)
     public void Edit_distance_counts_single_changes(string a, string b, int expected) =>
-        Assert.Equal(expected, GridDrift.Cli.UsageErrors.Distance(a, b));
+        Assert.Equal(expected, GridDrift.Workflows.Options.NearestName.Distance(a, b));
 }

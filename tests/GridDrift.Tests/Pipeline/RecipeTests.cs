@@ -46,4 +46,68 @@ public class RecipeTests
         Assert.Contains("climatology.by", line);
         Assert.Contains("line 6", line);
     }
+
+    [Fact]
+    public void A_misspelt_metric_is_refused_before_any_step_runs()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
+        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\nstat = [\"mean\"]\n\n[similarity]\nmetric = [\"ssmi\"]\nrange = \"0:80\"\n");
+        Assert.Equal(2, outcome.ExitCode);
+        var line = Assert.Single(outcome.StderrLines);
+        Assert.Contains("similarity.metric", line);
+        Assert.Contains("line 10", line);
+        Assert.Contains("ssmi", line);
+        Assert.False(File.Exists(dir.File("p/stats.nc"))); // the stats step before it never ran
+    }
+
+    [Fact]
+    public void A_bad_min_segment_is_refused_before_any_step_runs()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
+        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\nstat = [\"mean\"]\n\n[events]\nseries = \"stats.nc\"\nmin-segment = 1\n");
+        Assert.Equal(2, outcome.ExitCode);
+        var line = Assert.Single(outcome.StderrLines);
+        Assert.Contains("events.min-segment", line);
+        Assert.Contains("line 11", line);
+        Assert.False(File.Exists(dir.File("p/stats.nc")));
+    }
+
+    [Fact]
+    public void A_key_of_an_earlier_recipe_is_refused_with_its_new_name()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
+        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\n\n[stats]\nstatistics = [\"mean\"]\n");
+        Assert.Equal(2, outcome.ExitCode);
+        Assert.Contains("now 'stat'", Assert.Single(outcome.StderrLines));
+    }
+
+    [Fact]
+    public void A_variable_missing_from_the_files_is_refused_before_any_step_runs()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
+        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcvw\"\n\n[stats]\nstat = [\"mean\"]\n");
+        Assert.Equal(2, outcome.ExitCode);
+        var line = Assert.Single(outcome.StderrLines);
+        Assert.Contains("input.variable", line);
+        Assert.Contains("line 3", line);
+    }
+
+    [Fact]
+    public void The_command_line_and_a_recipe_share_every_default()
+    {
+        // the same stats run through both doors gives the same quantities (the recipe's default used to be three of them)
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 10, stepHours: 24);
+        var recipe = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\n");
+        Assert.True(recipe.ExitCode == 0, recipe.Stderr);
+        var cli = CliRun.Run("stats", dir.File("in.nc"), "--var", "tcwv", "--regions", "global", "--out", dir.File("cli.nc"), "--quiet");
+        Assert.True(cli.ExitCode == 0, cli.Stderr);
+        using var a = GridDrift.Formats.DatasetFiles.Open(dir.File("p/stats.nc"));
+        using var b = GridDrift.Formats.DatasetFiles.Open(dir.File("cli.nc"));
+        Assert.Equal(b.Variables.Select(v => v.Name), a.Variables.Select(v => v.Name));
+    }
 }

@@ -51,7 +51,7 @@ public class SlurmTests
 
         // the same chain with VIF (a slower record stage), killing shard 2 while it works
         string failing = dir.File("failing.toml");
-        File.WriteAllText(failing, File.ReadAllText(recipe).Replace("out = \"cluster\"", "out = \"failing\"").Replace("metrics = [\"ssim\", \"corr\", \"rmsd\"]", "metrics = [\"ssim\", \"vif\", \"corr\", \"rmsd\"]"));
+        File.WriteAllText(failing, File.ReadAllText(recipe).Replace("out = \"cluster\"", "out = \"failing\"").Replace("metric = [\"ssim\", \"corr\", \"rmsd\"]", "metric = [\"ssim\", \"vif\", \"corr\", \"rmsd\"]"));
         var failed = Submit(failing, killShard: 2);
         Assert.Equal(4, failed.ExitCode);
         string log = dir.File("failing/shards/slurm/logs/record-2.log");

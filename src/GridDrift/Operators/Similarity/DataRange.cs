@@ -37,16 +37,21 @@ public sealed record DataRange(double Low, double High, string Source)
         return range with { Low = c.Convert(range.Low), High = c.Convert(range.High) };
     }
 
+    /// <summary>A range given as LO:HI with LO &lt; HI; throws FormatException otherwise.</summary>
+    public static DataRange ParseOption(string text)
+    {
+        var parts = text.Split(':');
+        if (parts.Length == 2 && double.TryParse(parts[0], NumberStyles.Float, CultureInfo.InvariantCulture, out var lo)
+            && double.TryParse(parts[1], NumberStyles.Float, CultureInfo.InvariantCulture, out var hi) && hi > lo && double.IsFinite(lo) && double.IsFinite(hi))
+            return new DataRange(lo, hi, "--range");
+        throw new FormatException("expected LO:HI with LO < HI");
+    }
+
     public static DataRange Resolve(string? option, NcVariable variable, string path)
     {
         if (option is not null)
-        {
-            var parts = option.Split(':');
-            if (parts.Length == 2 && double.TryParse(parts[0], NumberStyles.Float, CultureInfo.InvariantCulture, out var lo)
-                && double.TryParse(parts[1], NumberStyles.Float, CultureInfo.InvariantCulture, out var hi) && hi > lo)
-                return new DataRange(lo, hi, "--range");
-            throw new BadInputException(null, null, $"--range {option}: expected LO:HI with LO < HI");
-        }
+            try { return ParseOption(option); }
+            catch (FormatException e) { throw new BadInputException(null, null, $"--range {option}: {e.Message}"); }
         var a = variable.Attributes;
         double scale = a.Find("scale_factor")?.FirstNumber() ?? 1, offset = a.Find("add_offset")?.FirstNumber() ?? 0;
         bool packedBounds(NcAttribute attr) => attr.Type == variable.Type && (scale != 1 || offset != 0);

@@ -1,4 +1,5 @@
 using GridDrift.Formats;
+using GridDrift.Conventions.Time;
 using GridDrift.Formats.Classic;
 
 namespace GridDrift.Outputs.Fields;
@@ -35,6 +36,28 @@ public sealed class FieldNetCdfWriter : IDisposable
             return d.Length == length ? d : throw new InvalidOperationException($"dimension {name} exists with length {d.Length}, not {length}");
         return _dimensions[name] = Writer.AddDimension(name, length);
     }
+
+    /// <summary>
+    /// The CF time coordinate of a field product (CF §4.4): standard_name, long_name, units,
+    /// calendar and axis, with a time_bnds(time, nv) variable named by its bounds attribute when
+    /// the records are means over periods (CF §7.1). The one place field products define it.
+    /// </summary>
+    public (ClassicWriter.Definition Time, ClassicWriter.Definition? Bounds) DefineTime(TimeUnits units, string calendar, bool withBounds = false)
+    {
+        var attributes = new List<NcAttribute>
+        {
+            NcAttribute.Text("standard_name", "time"), NcAttribute.Text("long_name", "time"), NcAttribute.Text("units", units.Text),
+            NcAttribute.Text("calendar", calendar), NcAttribute.Text("axis", "T"),
+        };
+        if (withBounds) attributes.Add(NcAttribute.Text("bounds", "time_bnds"));
+        var time = Writer.AddVariable("time", NcType.Double, [Time], attributes);
+        var bounds = withBounds ? Writer.AddVariable("time_bnds", NcType.Double, [Time, AddDimension("nv", 2)]) : null;
+        return (time, bounds);
+    }
+
+    /// <summary>A float32 field over (time, frame dimensions) with the given attributes and the products' _FillValue.</summary>
+    public ClassicWriter.Definition DefineField(string name, IEnumerable<NcAttribute> attributes) =>
+        Writer.AddVariable(name, NcType.Float, FieldDimensions(), attributes.Where(a => a.Name != "_FillValue").Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
 
     /// <summary>The frame dimensions behind a leading time dimension.</summary>
     public IEnumerable<NcDimension> FieldDimensions() => new[] { Time }.Concat(_template.FrameDimensions.Select(d => _dimensions[d]));
