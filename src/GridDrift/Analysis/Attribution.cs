@@ -1,9 +1,9 @@
 using GridDrift.Conventions.Time;
 namespace GridDrift.Analysis;
 
-public sealed record RegionImportance(int Region, double Importance, double Spread);
+internal sealed record RegionImportance(int Region, double Importance, double Spread);
 
-public sealed record AttributionResult(
+internal sealed record AttributionResult(
     Ridge Model,
     double R2,
     IReadOnlyList<RegionImportance> Overall,
@@ -16,7 +16,7 @@ public sealed record AttributionResult(
 /// error when one region's values are shuffled, averaged over repeats, for the whole record and
 /// within each year — and the exact Shapley values of the linear model per time step.
 /// </summary>
-public static class Attribution
+internal static class Attribution
 {
     public static AttributionResult Explain(double[,] x, double[] y, long[] years, int repeats = 10, int seed = 1)
     {

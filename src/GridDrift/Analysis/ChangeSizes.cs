@@ -1,7 +1,7 @@
 namespace GridDrift.Analysis;
 
 /// <summary>The size of a change in the mean in units of the series' short-term noise (the standard deviation of its step-to-step differences over √2).</summary>
-public static class ChangeSizes
+internal static class ChangeSizes
 {
     public sealed record Sized(string Region, string Time, double Shift, double Size);
 

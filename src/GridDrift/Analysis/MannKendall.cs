@@ -10,7 +10,7 @@ namespace GridDrift.Analysis;
 /// are significant at 5 % (|ρ_k| > 1.96/√n) enter n/n* = 1 + 2/(n(n−1)(n−2)) Σ (n−k)(n−k−1)(n−k−2) ρ_k,
 /// and Var*(S) = Var(S) · n/n*. Two-sided p-values from the normal distribution.
 /// </summary>
-public static class MannKendall
+internal static class MannKendall
 {
     public readonly record struct Result(int N, long S, double VarS, double Z, double P, double VarSCorrected, double ZCorrected, double PCorrected);
 

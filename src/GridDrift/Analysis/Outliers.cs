@@ -3,10 +3,10 @@ using MathNet.Numerics.Distributions;
 namespace GridDrift.Analysis;
 
 /// <summary>One detector's verdict on one value: its score, the threshold the score is held against, and whether it is flagged.</summary>
-public readonly record struct Flag(double Score, double Threshold, bool Flagged);
+internal readonly record struct Flag(double Score, double Threshold, bool Flagged);
 
 /// <summary>The outlier detectors of a series (NaN values get NaN scores and no flag).</summary>
-public static class Outliers
+internal static class Outliers
 {
     /// <summary>
     /// Robust z-score: (x − median) / (1.4826 · MAD), flagged where |z| exceeds 3.5 (the cut-off

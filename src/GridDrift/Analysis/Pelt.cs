@@ -20,7 +20,7 @@ public enum SegmentCost
 /// segments are at least <c>minSegment</c> long. The σ of the mean cost comes from the first
 /// differences and allows for AR(1) noise (<see cref="RobustNoise"/>).
 /// </summary>
-public static class Pelt
+internal static class Pelt
 {
     /// <returns>0-based indices of the first value of each new segment, ascending.</returns>
     public static int[] Detect(ReadOnlySpan<double> x, SegmentCost cost, double? penalty = null, int minSegment = 10)

@@ -6,7 +6,7 @@ namespace GridDrift.Analysis;
 /// with mid-ranks r; K = max |U_t|, the change follows the index of the maximum, and the
 /// approximate significance is p ≈ 2 exp(−6K² / (n³ + n²)) (capped at 1).
 /// </summary>
-public static class Pettitt
+internal static class Pettitt
 {
     /// <param name="LastBefore">0-based index of the last value before the change</param>
     public readonly record struct Result(int LastBefore, double K, double P);

@@ -1,7 +1,7 @@
 namespace GridDrift.Analysis;
 
 /// <summary>Rank helpers shared by the rank-based tests.</summary>
-public static class Ranks
+internal static class Ranks
 {
     /// <summary>Mid-ranks (1-based; ties share the mean of their ranks), as scipy.stats.rankdata's 'average'.</summary>
     public static double[] MidRanks(ReadOnlySpan<double> x)

@@ -9,7 +9,7 @@ namespace GridDrift.Analysis;
 /// the rows are cut into <c>folds</c> contiguous blocks, each held out in turn, so neighbouring
 /// (autocorrelated) times never sit on both sides of a split.
 /// </summary>
-public sealed class Ridge
+internal sealed class Ridge
 {
     public double[] Weights { get; }
     public double[] Mean { get; }

@@ -1,7 +1,7 @@
 namespace GridDrift.Analysis;
 
 /// <summary>Medians, MAD and quantiles for the detectors.</summary>
-public static class RobustStatistics
+internal static class RobustStatistics
 {
     /// <summary>1.4826 ≈ 1/Φ⁻¹(3/4): MAD × 1.4826 estimates σ of a normal sample (common practice).</summary>
     public const double MadScale = 1.4826;

@@ -7,7 +7,7 @@ namespace GridDrift.Analysis;
 /// series in time (days). The seasonal-residual detector uses the trend; `--on residuals` does
 /// not, because a trend term would absorb part of a step change and smear it into a ramp.
 /// </summary>
-public static class SeasonalModel
+internal static class SeasonalModel
 {
     public static double[] Residuals(ReadOnlySpan<double> days, ReadOnlySpan<double> x, int harmonics = 3, double yearDays = 365.2425, bool trend = true)
     {

@@ -9,7 +9,7 @@ namespace GridDrift.Analysis;
 /// statistic is found by bisection on the slope value, counting the pairs below a trial slope in
 /// O(n log n) (sort by x − s·t and count inversions), to 1e-12 of the slope's magnitude.
 /// </summary>
-public static class SenSlope
+internal static class SenSlope
 {
     const long EnumerateUpTo = 4_000_000;
 

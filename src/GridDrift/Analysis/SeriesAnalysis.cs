@@ -1,12 +1,12 @@
 namespace GridDrift.Analysis;
 
 /// <summary>Which outlier detector.</summary>
-public enum Detector { RobustZ, Hampel, Iqr, SeasonalResidual, Gesd }
+internal enum Detector { RobustZ, Hampel, Iqr, SeasonalResidual, Gesd }
 
 /// <summary>Which change-point method.</summary>
-public enum ChangeMethod { Pettitt, PeltMean, PeltMeanVariance }
+internal enum ChangeMethod { Pettitt, PeltMean, PeltMeanVariance }
 
-public sealed record SeriesAnalysisOptions(
+internal sealed record SeriesAnalysisOptions(
     IReadOnlyList<Detector> Detectors,
     IReadOnlyList<ChangeMethod> ChangeMethods,
     bool OnResiduals = false,
@@ -16,13 +16,13 @@ public sealed record SeriesAnalysisOptions(
     double YearDays = 365.2425,
     double Alpha = 0.05);
 
-public sealed record ChangePoint(ChangeMethod Method, int FirstAfter, double? P, double MeanBefore, double MeanAfter, SenSlope.Estimate Before, SenSlope.Estimate After)
+internal sealed record ChangePoint(ChangeMethod Method, int FirstAfter, double? P, double MeanBefore, double MeanAfter, SenSlope.Estimate Before, SenSlope.Estimate After)
 {
     /// <summary>Whether Sen's slope changes sign across the change.</summary>
     public bool TrendReverses => Math.Sign(Before.Slope) * Math.Sign(After.Slope) < 0;
 }
 
-public sealed record SeriesFindings(
+internal sealed record SeriesFindings(
     IReadOnlyDictionary<Detector, Flag[]> Flags,
     int[] Consensus,
     bool[] Events,
@@ -41,7 +41,7 @@ public sealed record SeriesFindings(
 /// of the values on either side, and the trend of each segment between PELT's mean changes.
 /// Times are days from any origin; NaN values take no part.
 /// </summary>
-public static class SeriesAnalysis
+internal static class SeriesAnalysis
 {
     public static SeriesFindings Analyse(double[] days, double[] values, SeriesAnalysisOptions o)
     {

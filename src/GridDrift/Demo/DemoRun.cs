@@ -9,7 +9,7 @@ namespace GridDrift.Demo;
 /// into one folder, then runs the recipe. The user can edit the recipe and rerun it with
 /// `griddrift run`.
 /// </summary>
-public static class DemoRun
+internal static class DemoRun
 {
     public static (string Recipe, IReadOnlyList<StepOutcome> Steps) Run(string folder, string size, Action<string>? log = null)
     {

@@ -12,7 +12,7 @@ namespace GridDrift.Demo;
 /// <see cref="SpeedFactor"/> times faster and the noise is <see cref="NoiseFactor"/> times larger,
 /// so consecutive frames become less alike. Nothing here is real data.
 /// </summary>
-public sealed record DemoScenario(string Size, double Resolution, double StepHours, int FirstYear, int Years, CfTime ShiftDate)
+internal sealed record DemoScenario(string Size, double Resolution, double StepHours, int FirstYear, int Years, CfTime ShiftDate)
 {
     public const double SpeedFactor = 2.5, NoiseFactor = 2.0;
     public const string Variable = "tb";

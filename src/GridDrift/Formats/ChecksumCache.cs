@@ -11,24 +11,14 @@ namespace GridDrift.Formats;
 /// GRIDDRIFT_CHECKSUM_CACHE=off turns it off, and any failure to read or write it only means
 /// the checksum is computed.
 /// </summary>
-public static class ChecksumCache
+internal static class ChecksumCache
 {
     static readonly object Gate = new();
     const long MaxBytes = 2 << 20;
 
-    public static bool Enabled => !string.Equals(Environment.GetEnvironmentVariable("GRIDDRIFT_CHECKSUM_CACHE"), "off", StringComparison.OrdinalIgnoreCase);
+    public static bool Enabled => GridDriftSettings.Current.RememberChecksums;
 
-    static string? CachePath()
-    {
-        string? root = Environment.GetEnvironmentVariable("XDG_CACHE_HOME");
-        if (string.IsNullOrEmpty(root))
-        {
-            string home = Environment.GetFolderPath(Environment.SpecialFolder.UserProfile);
-            if (string.IsNullOrEmpty(home)) return null;
-            root = Path.Combine(home, ".cache");
-        }
-        return Path.Combine(root, "griddrift", "sha256.tsv");
-    }
+    static string? CachePath() => GridDriftSettings.Current.ChecksumFile;
 
     /// <summary>Checksums of this process, by the same key: a file hashed ahead (<see cref="Prefetch"/>) or by another step is hashed once.</summary>
     static readonly System.Collections.Concurrent.ConcurrentDictionary<string, Lazy<string>> InProcess = new();

@@ -4,7 +4,7 @@ using GridDrift.Formats.Hdf5;
 namespace GridDrift.Formats;
 
 /// <summary>Opens any supported file: the format is sniffed from its magic bytes, never from its name.</summary>
-public static class DatasetFiles
+internal static class DatasetFiles
 {
     static ReadOnlySpan<byte> Hdf5Signature => [0x89, (byte)'H', (byte)'D', (byte)'F', (byte)'\r', (byte)'\n', 0x1A, (byte)'\n'];
 

@@ -3,7 +3,7 @@ using System.Security.Cryptography;
 namespace GridDrift.Formats;
 
 /// <summary>The SHA-256 of an input file, as every product records it.</summary>
-public static class FileHash
+internal static class FileHash
 {
     /// <summary>
     /// The SHA-256 of a file's bytes, always computed: hashed straight from the file's mapped

@@ -5,7 +5,7 @@ namespace GridDrift.Formats;
 /// table): inquire dimensions, variables and attributes, and read a hyperslab into a caller's
 /// buffer. Everything above this interface is format-blind.
 /// </summary>
-public interface IDatasetReader : IDisposable
+internal interface IDatasetReader : IDisposable
 {
     string Path { get; }
     /// <summary>"classic", "64-bit offset", "64-bit data" (CDF-5), "netCDF-4", "netCDF-4 classic model".</summary>
@@ -25,7 +25,7 @@ public interface IDatasetReader : IDisposable
     string[] ReadStrings(NcVariable variable);
 }
 
-public static class DatasetReaderExtensions
+internal static class DatasetReaderExtensions
 {
     public static NcVariable? FindVariable(this IDatasetReader reader, string name)
     {

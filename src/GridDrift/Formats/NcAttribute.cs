@@ -7,7 +7,7 @@ namespace GridDrift.Formats;
 /// (sbyte[], short[], int[], float[], double[], byte[], ushort[], uint[], long[], ulong[]),
 /// a <see cref="string"/> for NC_CHAR text, or string[] for NC_STRING.
 /// </summary>
-public sealed class NcAttribute
+internal sealed class NcAttribute
 {
     public string Name { get; }
     public NcType Type { get; }
@@ -72,7 +72,7 @@ public sealed class NcAttribute
     public override string ToString() => $"{Name} = {Render()}";
 }
 
-public static class NcAttributeListExtensions
+internal static class NcAttributeListExtensions
 {
     public static NcAttribute? Find(this IReadOnlyList<NcAttribute> attributes, string name)
     {

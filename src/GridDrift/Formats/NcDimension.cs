@@ -1,7 +1,7 @@
 namespace GridDrift.Formats;
 
 /// <summary>A named axis length. An unlimited dimension grows as records are appended.</summary>
-public sealed class NcDimension(string name, long length, bool isUnlimited)
+internal sealed class NcDimension(string name, long length, bool isUnlimited)
 {
     public string Name { get; } = name;
     /// <summary>For an unlimited netCDF-4 dimension, the longest extent of any variable along it.</summary>

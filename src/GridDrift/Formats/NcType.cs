@@ -4,7 +4,7 @@ namespace GridDrift.Formats;
 /// The NetCDF external types. The numeric codes are those of the NetCDF classic format
 /// specification (NC_BYTE = 1 … NC_UINT64 = 11) and of netCDF-4 (NC_STRING = 12).
 /// </summary>
-public enum NcType
+internal enum NcType
 {
     Byte = 1,
     Char = 2,
@@ -22,7 +22,7 @@ public enum NcType
     Unsupported = 99,
 }
 
-public static class NcTypes
+internal static class NcTypes
 {
     public static int SizeOf(NcType type) => type switch
     {

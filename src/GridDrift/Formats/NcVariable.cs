@@ -4,7 +4,7 @@ namespace GridDrift.Formats;
 /// A variable as a file declares it: raw type, dimensions and attributes, nothing decoded.
 /// Variables in nested netCDF-4 groups carry their path in <see cref="Name"/> ("group/var").
 /// </summary>
-public sealed class NcVariable
+internal sealed class NcVariable
 {
     public string Name { get; }
     public NcType Type { get; }

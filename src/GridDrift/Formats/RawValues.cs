@@ -6,7 +6,7 @@ using System.Runtime.InteropServices;
 namespace GridDrift.Formats;
 
 /// <summary>Conversions of raw, little-endian typed bytes, vectorised through TensorPrimitives.</summary>
-public static class RawValues
+internal static class RawValues
 {
     public static void RequireNumericOrChar(string path, NcVariable variable)
     {

@@ -6,10 +6,10 @@ namespace GridDrift.Formats;
 /// <see cref="Offset"/> + t × <see cref="Stride"/> and is <see cref="Bytes"/> long. A reader
 /// that can say this lets the frame loop map the file and decode in place of copying.
 /// </summary>
-public readonly record struct StoredFrames(long Offset, long Stride, long Bytes, bool BigEndian, long FrameCount);
+internal readonly record struct StoredFrames(long Offset, long Stride, long Bytes, bool BigEndian, long FrameCount);
 
 /// <summary>A reader whose files store frames contiguously and uncompressed (the NetCDF classic formats).</summary>
-public interface IStoredFrameLayout
+internal interface IStoredFrameLayout
 {
     /// <summary>The layout of <paramref name="variable"/>'s frames along dimension <paramref name="timeDimension"/>, or null where a frame is not one contiguous run.</summary>
     StoredFrames? LocateFrames(NcVariable variable, int timeDimension);

@@ -7,7 +7,7 @@ namespace GridDrift.Frames;
 /// worker count (and, for batches, by a byte budget), never by the length of the record; buffers
 /// are made once per run, so nothing is allocated per frame.
 /// </summary>
-public static class FrameEngine
+internal static class FrameEngine
 {
     /// <summary>
     /// Frames <paramref name="frames"/> (indices in time order) of every source at once: frame f of

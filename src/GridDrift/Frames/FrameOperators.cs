@@ -6,7 +6,7 @@ namespace GridDrift.Frames;
 /// with the frame's values — one span per source the run reads at the same time index — and then
 /// <see cref="Complete"/> on the calling thread in time order, where results are handed on.
 /// </summary>
-public interface IFrameOperator<TWorker>
+internal interface IFrameOperator<TWorker>
 {
     TWorker NewWorker();
 
@@ -19,7 +19,7 @@ public interface IFrameOperator<TWorker>
 /// An operator over pairs of frames: frame-to-frame at a lag, a frame against a fixed field, or a
 /// candidate against a reference at a shared time. Same worker split as <see cref="IFrameOperator{TWorker}"/>.
 /// </summary>
-public interface IPairOperator<TWorker>
+internal interface IPairOperator<TWorker>
 {
     TWorker NewWorker();
 
@@ -36,7 +36,7 @@ public interface IPairOperator<TWorker>
 /// and <see cref="Process{TValues}"/> runs each piece on the workers over the stored values
 /// through a struct decoder, so a mapped file's pages are read once.
 /// </summary>
-public interface IFrameBatchOperator
+internal interface IFrameBatchOperator
 {
     /// <summary>Puts into <paramref name="order"/> the positions in <paramref name="frames"/> in the order <see cref="Process{TValues}"/> wants them.</summary>
     void Arrange(ReadOnlySpan<int> frames, Span<int> order);
@@ -49,10 +49,10 @@ public interface IFrameBatchOperator
 }
 
 /// <summary>Two frames of a pair: indices into the earlier and the later source; −1 as <see cref="Earlier"/> means the fixed field.</summary>
-public readonly record struct FramePair(int Earlier, int Later);
+internal readonly record struct FramePair(int Earlier, int Later);
 
 /// <summary>The values of one time index in each source a frame operator reads (the first is the record's own variable).</summary>
-public readonly struct FrameInputs
+internal readonly struct FrameInputs
 {
     readonly float[][] _frames;
 

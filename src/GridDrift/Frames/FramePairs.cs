@@ -3,7 +3,7 @@ using GridDrift.Conventions.Time;
 namespace GridDrift.Frames;
 
 /// <summary>Which frames a pair run compares: at a lag within one record, each against a fixed field, or two records at their shared times.</summary>
-public static class FramePairs
+internal static class FramePairs
 {
     /// <summary>Frame i − lag with frame i; a pair whose time gap is not lag × the record's step is left out and listed, unless <paramref name="acrossGaps"/>.</summary>
     public static List<FramePair> AtLag(FrameSource source, int lag, bool acrossGaps, out List<(CfTime Earlier, CfTime Later)> skipped)

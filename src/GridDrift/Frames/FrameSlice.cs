@@ -5,7 +5,7 @@ namespace GridDrift.Frames;
 /// shard of a sharded run owns. Shard I of N owns frames ⌊(I−1)T/N⌋ up to ⌊IT/N⌋, so the N
 /// slices tile the T frames without overlap and differ in length by at most one frame.
 /// </summary>
-public readonly record struct FrameSlice(int First, int Count)
+internal readonly record struct FrameSlice(int First, int Count)
 {
     public int End => First + Count;
 

@@ -13,7 +13,7 @@ namespace GridDrift.Frames;
 /// naming both files; gaps are allowed and listed. Frames are decoded (CF masking and
 /// unpacking) into float32 buffers the caller owns; reads are safe from several threads.
 /// </summary>
-public sealed class FrameSource : IDisposable
+internal sealed class FrameSource : IDisposable
 {
     readonly Part[] _parts;
     readonly int[] _partStart;

@@ -3,7 +3,7 @@ using System.Text.RegularExpressions;
 namespace GridDrift.Frames;
 
 /// <summary>Expands file names and globs (* ? [..] in the file-name part) into a sorted list of paths.</summary>
-public static class InputPaths
+internal static class InputPaths
 {
     public static IReadOnlyList<string> Expand(IEnumerable<string> patterns)
     {

@@ -11,7 +11,7 @@ namespace GridDrift.Frames;
 /// the pages are first touched by the workers that fill them, in parallel. Elsewhere, or where
 /// the kernel declines, it is an ordinary zeroed allocation.
 /// </summary>
-public sealed unsafe class LargeBuffer<T> : IDisposable where T : unmanaged
+internal sealed unsafe class LargeBuffer<T> : IDisposable where T : unmanaged
 {
     const nuint HugePage = 2 << 20;
     const int MadvHugePage = 14;

@@ -10,7 +10,7 @@ namespace GridDrift.Frames;
 /// window is mapped at once, and it is unmapped before the next, so the pages a run holds stay
 /// those of the frames in flight. Made by <see cref="FrameSource.TryMap"/>.
 /// </summary>
-public sealed unsafe class MappedFrames : IDisposable
+internal sealed unsafe class MappedFrames : IDisposable
 {
     internal readonly record struct Piece(string Path, StoredFrames Layout, int First);
 

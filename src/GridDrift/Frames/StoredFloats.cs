@@ -9,14 +9,14 @@ namespace GridDrift.Frames;
 /// compiles one loop per decoder with the decoding inlined: the loop can run straight over a
 /// mapped file's pages instead of over a decoded copy.
 /// </summary>
-public unsafe interface IStoredFloats
+internal unsafe interface IStoredFloats
 {
     Vector256<double> Load4(byte* at);
     double Load(byte* at);
 }
 
 /// <summary>Values already decoded: native-order float32 with NaN for missing.</summary>
-public readonly unsafe struct DecodedFloats : IStoredFloats
+internal readonly unsafe struct DecodedFloats : IStoredFloats
 {
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public Vector256<double> Load4(byte* at) => Vector256.WidenLower(Vector128.Load((float*)at).ToVector256Unsafe());
@@ -30,7 +30,7 @@ public readonly unsafe struct DecodedFloats : IStoredFloats
 /// (the variable's _FillValue or missing_value; NaN when it has none): bytes reversed, the fill
 /// value replaced by NaN, then widened — the decoding <see cref="FrameSource.ReadFrame"/> does.
 /// </summary>
-public readonly unsafe struct BigEndianFloats(float fill) : IStoredFloats
+internal readonly unsafe struct BigEndianFloats(float fill) : IStoredFloats
 {
     readonly float _fill = fill;
 

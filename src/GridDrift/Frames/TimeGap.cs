@@ -6,7 +6,7 @@ namespace GridDrift.Frames;
 public sealed record TimeGap(int IndexBefore, CfTime Before, CfTime After, double MissingSteps)
 {
     /// <summary>Every place where consecutive times are more than one step apart.</summary>
-    public static List<TimeGap> Find(IReadOnlyList<CfTime> times, TimeStep? step)
+    internal static List<TimeGap> Find(IReadOnlyList<CfTime> times, TimeStep? step)
     {
         var gaps = new List<TimeGap>();
         if (step is not { } s) return gaps;

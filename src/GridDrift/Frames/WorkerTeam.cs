@@ -8,7 +8,7 @@ namespace GridDrift.Frames;
 /// The threads live for the whole run, so a record of tens of thousands of batches allocates
 /// nothing per batch (a parallel loop per batch would allocate its tasks and closures each time).
 /// </summary>
-public sealed class WorkerTeam : IDisposable
+internal sealed class WorkerTeam : IDisposable
 {
     readonly Thread[] _helpers;
     readonly SemaphoreSlim[] _start; // one per helper: each takes exactly one start per job

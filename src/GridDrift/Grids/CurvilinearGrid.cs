@@ -8,7 +8,7 @@ namespace GridDrift.Grids;
 /// halfway between centres and in error by O(h²) of the cell size h on smoothly varying grids;
 /// the area of the quadrilateral itself is exact on the sphere (great-circle edges).
 /// </summary>
-public static class CurvilinearGrid
+internal static class CurvilinearGrid
 {
     public static Grid Build(double[] lat2d, double[] lon2d, int rows, int columns, double[]? cornerLat = null, double[]? cornerLon = null,
         double radius = Sphere.MeanEarthRadius, GridKind kind = GridKind.Curvilinear, bool[]? valid = null)

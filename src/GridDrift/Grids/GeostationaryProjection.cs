@@ -9,7 +9,7 @@ namespace GridDrift.Grids;
 /// sweep_angle_axis = "y" (the CGMS/MSG convention) the line of sight is
 /// (−cos x cos y, sin x cos y, sin y); with "x" (GOES-R) it is (−cos x cos y, sin x, cos x sin y).
 /// </summary>
-public sealed record GeostationaryProjection(double PerspectivePointHeight, double SemiMajorAxis, double SemiMinorAxis,
+internal sealed record GeostationaryProjection(double PerspectivePointHeight, double SemiMajorAxis, double SemiMinorAxis,
     double LongitudeOfProjectionOrigin, string SweepAngleAxis = "y")
 {
     public double SatelliteDistance => PerspectivePointHeight + SemiMajorAxis;

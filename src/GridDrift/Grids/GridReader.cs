@@ -8,7 +8,7 @@ namespace GridDrift.Grids;
 /// longitude (with CF §7.1 bounds where present), 2-D auxiliary latitude/longitude (CF §5.2),
 /// or geostationary scan angles with their grid_mapping (CF Appendix F).
 /// </summary>
-public static class GridReader
+internal static class GridReader
 {
     public static Grid Read(IDatasetReader reader, VariableAxes axes, double radius = Sphere.MeanEarthRadius)
     {

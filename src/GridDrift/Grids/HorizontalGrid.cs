@@ -6,7 +6,7 @@ namespace GridDrift.Grids;
 /// within 1e-4 of the mean step, relative: float32 coordinates of a 0.25° grid pass; Gaussian
 /// latitudes (steps that vary by more than that) do not.
 /// </summary>
-public sealed record HorizontalGrid(GridKind Kind, int LatitudeCount, int LongitudeCount,
+internal sealed record HorizontalGrid(GridKind Kind, int LatitudeCount, int LongitudeCount,
     double? LatitudeStep, double? LongitudeStep, bool LatitudeDescending, string LongitudeConvention, bool IsGlobalInLongitude)
 {
     const double EvenTolerance = 1e-4;

@@ -6,7 +6,7 @@ namespace GridDrift.Grids;
 /// the outermost edges half a step beyond the outermost centres and latitudes clamped to ±90°
 /// (so a cell centred on a pole is a half cell). Areas are exact: R² Δλ (sin φ₂ − sin φ₁).
 /// </summary>
-public static class RectilinearGrid
+internal static class RectilinearGrid
 {
     public static Grid Build(double[] lat, double[] lon, double[]? latBounds = null, double[]? lonBounds = null,
         double radius = Sphere.MeanEarthRadius, bool columnsFirst = false)

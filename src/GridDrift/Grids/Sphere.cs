@@ -7,7 +7,7 @@ namespace GridDrift.Grids;
 /// with the formula of Van Oosterom & Strackee (1983, IEEE Trans. Biomed. Eng. 30(2): 125) for
 /// the solid angle of a triangle, tan(E/2) = a·(b×c) / (1 + a·b + b·c + c·a).
 /// </summary>
-public static class Sphere
+internal static class Sphere
 {
     /// <summary>IUGG mean Earth radius R₁ = (2a + b)/3 of GRS80 (Moritz 2000, Journal of Geodesy 74: 128), in metres.</summary>
     public const double MeanEarthRadius = 6_371_008.8;

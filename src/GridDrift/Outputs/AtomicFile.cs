@@ -1,7 +1,7 @@
 namespace GridDrift.Outputs;
 
 /// <summary>Small text files (checkpoints, manifests, batch scripts) written beside their final name and renamed, so no reader ever sees half of one.</summary>
-public static class AtomicFile
+internal static class AtomicFile
 {
     public static void WriteAllText(string path, string text)
     {

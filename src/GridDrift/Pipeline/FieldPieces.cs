@@ -11,7 +11,7 @@ namespace GridDrift.Pipeline;
 /// and follow one another in time; the global attributes are the first piece's with the
 /// provenance replaced.
 /// </summary>
-public static class FieldPieces
+internal static class FieldPieces
 {
     public static int Join(IReadOnlyList<string> pieces, string output, IReadOnlyDictionary<string, string> globals)
     {

@@ -14,7 +14,7 @@ namespace GridDrift.Pipeline;
 /// product names are relative to [input] out. Unknown tables and keys, wrong types and missing
 /// keys are refused with the recipe's path, the line and the key.
 /// </summary>
-public sealed class Recipe
+internal sealed class Recipe
 {
     public sealed record Value(object Data, int Line);
 

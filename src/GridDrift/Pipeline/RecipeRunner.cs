@@ -12,7 +12,7 @@ using GridDrift.Workflows.Options;
 namespace GridDrift.Pipeline;
 
 /// <summary>What one step of a run did: ran, or was skipped because its checkpoint still held.</summary>
-public sealed record StepOutcome(string Step, bool Skipped, IReadOnlyList<string> Outputs, JsonObject Summary, TimeSpan Took);
+internal sealed record StepOutcome(string Step, bool Skipped, IReadOnlyList<string> Outputs, JsonObject Summary, TimeSpan Took);
 
 /// <summary>
 /// `griddrift run`: the steps of a recipe in their fixed order (stats, similarity, climatology,
@@ -22,7 +22,7 @@ public sealed record StepOutcome(string Step, bool Skipped, IReadOnlyList<string
 /// its outputs exist, and none is older than its inputs — so an interrupted run resumes where it
 /// stopped. Every product is itself written under a temporary name and renamed when complete.
 /// </summary>
-public static class RecipeRunner
+internal static class RecipeRunner
 {
     /// <summary>A step of a recipe: its table's name, whether a shard runs it on its slice, what it does, and what can be checked before anything runs.</summary>
     sealed record RecipeStep(string Name, bool Sharded, Func<StepContext, JsonObject> Run, Action<Recipe> Check);

@@ -6,7 +6,7 @@ namespace GridDrift.Pipeline;
 /// ends), so a second run writing into the same folder is refused, and a run killed outright does
 /// not leave the folder locked.
 /// </summary>
-public sealed class RunLock : IDisposable
+internal sealed class RunLock : IDisposable
 {
     readonly FileStream _stream;
 

@@ -12,7 +12,7 @@ namespace GridDrift.Pipeline;
 /// findings — change points per region, trends, trend reversals, leading regions — and, when the
 /// recipe names a truth file (the demo does), the injected truth beside what was recovered.
 /// </summary>
-public static class RunReport
+internal static class RunReport
 {
     public const double TruthToleranceDays = 30;
 

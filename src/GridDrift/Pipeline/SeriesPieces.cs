@@ -13,7 +13,7 @@ namespace GridDrift.Pipeline;
 /// metadata and the Parquet table come out as that run's. Pieces must agree in regions,
 /// quantities and time axis, and follow one another in time.
 /// </summary>
-public static class SeriesPieces
+internal static class SeriesPieces
 {
     static readonly HashSet<string> ProvenanceKeys = ["Conventions", "source", "griddrift_version", "history", "command", "input_files", "input_sha256", "caution"];
 

@@ -7,7 +7,7 @@ using GridDrift.Workflows.Options;
 
 namespace GridDrift.Pipeline;
 
-public sealed record GatherOutcome(string Step, bool Skipped, IReadOnlyList<string> Outputs, JsonObject Summary);
+internal sealed record GatherOutcome(string Step, bool Skipped, IReadOnlyList<string> Outputs, JsonObject Summary);
 
 /// <summary>
 /// `griddrift gather SHARD-DIR...`: turns the partial products of the N shards of one sharded run
@@ -18,7 +18,7 @@ public sealed record GatherOutcome(string Step, bool Skipped, IReadOnlyList<stri
 /// A step that no shard has finished yet is left for a later stage; one that only some have
 /// finished is refused, naming the shards that have not.
 /// </summary>
-public static class ShardGather
+internal static class ShardGather
 {
     public static IReadOnlyList<GatherOutcome> Run(IReadOnlyList<string> shardFolders, string? outDir, Action<string>? log = null, string command = "griddrift gather")
     {

@@ -10,7 +10,7 @@ namespace GridDrift.Pipeline;
 /// times of the record it owns, and on which host it ran. griddrift gather reads it to check that
 /// every shard of one run is there exactly once, and lists it in the gathered products.
 /// </summary>
-public sealed record ShardManifest(string Recipe, ShardSpec Shard, FrameSlice Slice, int RecordFrames, string FirstTime, string LastTime, string Host, string Folder)
+internal sealed record ShardManifest(string Recipe, ShardSpec Shard, FrameSlice Slice, int RecordFrames, string FirstTime, string LastTime, string Host, string Folder)
 {
     public const string FileName = "shard.json";
 

@@ -3,7 +3,7 @@ using System.Globalization;
 namespace GridDrift.Pipeline;
 
 /// <summary>Shard I of N of a sharded run (`--shard I/N`, counted from 1): which slice of the record it owns and where it writes.</summary>
-public readonly record struct ShardSpec(int Index, int Count)
+internal readonly record struct ShardSpec(int Index, int Count)
 {
     public static ShardSpec Parse(string text)
     {

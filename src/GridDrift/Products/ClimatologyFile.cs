@@ -6,7 +6,7 @@ using GridDrift.Formats;
 namespace GridDrift.Products;
 
 /// <summary>A climatology product read back (as griddrift climatology writes it): the slot scheme and the per-slot fields.</summary>
-public sealed class ClimatologyFile
+internal sealed class ClimatologyFile
 {
     public required string Path { get; init; }
     public required SlotScheme Scheme { get; init; }

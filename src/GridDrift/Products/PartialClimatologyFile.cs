@@ -10,7 +10,7 @@ namespace GridDrift.Products;
 /// in a CDF-5 file with dimensions (slot, cell). Unlike the finished climatology it loses
 /// nothing, so partial states merge (Chan, Golub &amp; LeVeque 1983) into the state of the whole.
 /// </summary>
-public static class PartialClimatologyFile
+internal static class PartialClimatologyFile
 {
     public const string Marker = "griddrift_partial_climatology";
 

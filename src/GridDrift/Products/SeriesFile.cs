@@ -8,7 +8,7 @@ namespace GridDrift.Products;
 /// whose quantities are (time, region) variables labelled by a region variable (NetCDF-4 strings
 /// or a char array), and GridDrift's tidy Parquet tables.
 /// </summary>
-public sealed class SeriesFile
+internal sealed class SeriesFile
 {
     public required string Path { get; init; }
     public required CfTime[] Times { get; init; }

@@ -8,7 +8,7 @@ namespace GridDrift.Regions;
 /// antimeridian (consecutive longitudes more than 180° apart) is unwrapped so that it stays
 /// continuous.
 /// </summary>
-public static class GeoJsonRegions
+internal static class GeoJsonRegions
 {
     public static IReadOnlyList<RegionShape> Read(string path)
     {

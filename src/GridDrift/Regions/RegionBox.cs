@@ -8,7 +8,7 @@ namespace GridDrift.Regions;
 /// a rectangle of cells, not the region's exact area. A region across the longitude seam of the
 /// grid's columns gets a box spanning every column between its cells.
 /// </summary>
-public sealed record RegionBox(int FirstRow, int Rows, int FirstColumn, int Columns)
+internal sealed record RegionBox(int FirstRow, int Rows, int FirstColumn, int Columns)
 {
     public static RegionBox[] Of(Grid grid, RegionMask mask)
     {

@@ -5,7 +5,7 @@ namespace GridDrift.Regions;
 /// and the area of each cell that lies inside it (m²), stored compactly row by row (CSR:
 /// region r owns entries RowStart[r] … RowStart[r+1]−1).
 /// </summary>
-public sealed class RegionMask
+internal sealed class RegionMask
 {
     public required string[] Names { get; init; }
     public required int[] RowStart { get; init; }

@@ -12,7 +12,7 @@ namespace GridDrift.Regions;
 /// then within 1/K of the truth along each cut (about 1/(2K) on average), and cells wholly
 /// inside or outside are exact.
 /// </summary>
-public static class RegionMaskBuilder
+internal static class RegionMaskBuilder
 {
     public const int SamplesPerSide = 8;
 

@@ -8,7 +8,7 @@ namespace GridDrift.Regions;
 /// <c>box:NAME=SOUTH,NORTH,WEST,EAST</c> · <c>file:PATH.geojson</c>. Generated names read like
 /// <c>band_s10_n10</c> and <c>tile_n20_n40_e000_e030</c>.
 /// </summary>
-public static class RegionSpecs
+internal static class RegionSpecs
 {
     /// <summary>Parses user input: a malformed specification is bad input (exit code 2), not a crash.</summary>
     public static IReadOnlyList<RegionShape> ParseInput(IEnumerable<string> specs)

@@ -11,7 +11,7 @@ namespace GridDrift.Regions;
 /// partial sums over its rows. Every cell is read once per distinct longitude range (twice for
 /// global + bands + tiles), contiguously, instead of once per region through an index.
 /// </summary>
-public sealed class SeparablePlan
+internal sealed class SeparablePlan
 {
     internal sealed record LonRange(int First, int Count, double[] Width);
     internal sealed record Box(int Range, int FirstRow, double[] RowFactor);

@@ -4,7 +4,7 @@ namespace GridDrift.Regions;
 /// The one rule for when a region's value is kept: some of its area holds data, and at least the
 /// minimum fraction of it does (NaN fractions are not kept).
 /// </summary>
-public static class ValidFraction
+internal static class ValidFraction
 {
     public static bool Keeps(double valid, double minValid) => valid > 0 && valid >= minValid;
 

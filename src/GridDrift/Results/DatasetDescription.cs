@@ -4,7 +4,7 @@ using GridDrift.Grids;
 namespace GridDrift.Results;
 
 /// <summary>Everything `describe` reports of one file, format-blind.</summary>
-public sealed record FileDescription(
+internal sealed record FileDescription(
     string Path,
     string Format,
     IReadOnlyList<DimensionDescription> Dimensions,
@@ -14,18 +14,18 @@ public sealed record FileDescription(
     HorizontalGrid? Grid,
     IReadOnlyList<string> Warnings);
 
-public sealed record DimensionDescription(string Name, long Length, bool IsUnlimited);
+internal sealed record DimensionDescription(string Name, long Length, bool IsUnlimited);
 
-public sealed record AttributeDescription(string Name, string Type, string Value);
+internal sealed record AttributeDescription(string Name, string Type, string Value);
 
-public sealed record VariableDescription(
+internal sealed record VariableDescription(
     string Name, string Type, IReadOnlyList<string> Dimensions, IReadOnlyList<long> Shape,
     string? Units, string? StandardName, string? LongName, string Role,
     IReadOnlyList<AttributeDescription> Attributes);
 
-public sealed record TimeDescription(
+internal sealed record TimeDescription(
     string Variable, string Calendar, string Units, string First, string Last, int Count,
     string? Step, string? StepText, IReadOnlyList<TimeGap> Gaps);
 
 /// <summary>Several files that split one record along time.</summary>
-public sealed record RecordDescription(string Variable, IReadOnlyList<string> Files, TimeDescription Time);
+internal sealed record RecordDescription(string Variable, IReadOnlyList<string> Files, TimeDescription Time);

@@ -3,7 +3,7 @@ using GridDrift.Conventions.Time;
 namespace GridDrift.Results;
 
 /// <summary>Where whole fields go as they are computed, in time order (NaN where missing).</summary>
-public interface IFieldSink
+internal interface IFieldSink
 {
     void Write(CfTime time, ReadOnlySpan<float> field);
 }

@@ -16,7 +16,7 @@ using GridDrift.Workflows.Options;
 
 namespace GridDrift.Workflows;
 
-public sealed record AnomaliesOptions(
+internal sealed record AnomaliesOptions(
     IReadOnlyList<string> Inputs,
     string Variable,
     string Climatology,
@@ -32,7 +32,7 @@ public sealed record AnomaliesOptions(
     string? Units = null,
     FrameSlice? Slice = null);
 
-public sealed record AnomaliesSummary(int Frames, int FramesWithoutSlot, string? Series, IReadOnlyList<string> Warnings);
+internal sealed record AnomaliesSummary(int Frames, int FramesWithoutSlot, string? Series, IReadOnlyList<string> Warnings);
 
 /// <summary>
 /// `griddrift anomalies`: departures of every frame from its slot of a climatology, streamed
@@ -40,7 +40,7 @@ public sealed record AnomaliesSummary(int Frames, int FramesWithoutSlot, string?
 /// area-weighted region means (series NetCDF and Parquet table). Frames in flight are bounded
 /// by the worker count.
 /// </summary>
-public static class AnomaliesStep
+internal static class AnomaliesStep
 {
     public static AnomaliesSummary Run(AnomaliesOptions o, IProgress<(int Done, int Total)>? progress = null)
     {

@@ -11,7 +11,7 @@ using GridDrift.Workflows.Options;
 
 namespace GridDrift.Workflows;
 
-public sealed record AttributeOptions(
+internal sealed record AttributeOptions(
     string Input,
     string Target,
     string Output,
@@ -21,7 +21,7 @@ public sealed record AttributeOptions(
     string Command = "griddrift attribute",
     string? PlotDirectory = null);
 
-public sealed record AttributeSummary(IReadOnlyList<(string Region, double Importance)> Ranking, double R2, JsonObject Json, IReadOnlyList<string> Tables);
+internal sealed record AttributeSummary(IReadOnlyList<(string Region, double Importance)> Ranking, double R2, JsonObject Json, IReadOnlyList<string> Tables);
 
 /// <summary>
 /// `griddrift attribute`: which regions drive a target series. Fits <see cref="Ridge"/> of the
@@ -30,7 +30,7 @@ public sealed record AttributeSummary(IReadOnlyList<(string Region, double Impor
 /// two periods (given, or before/after the target's Pettitt change point), and partial dependence
 /// and ICE profiles of chosen regions.
 /// </summary>
-public static class AttributeStep
+internal static class AttributeStep
 {
     const int Leaders = 5;
 

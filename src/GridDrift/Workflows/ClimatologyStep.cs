@@ -11,7 +11,7 @@ using GridDrift.Products;
 
 namespace GridDrift.Workflows;
 
-public sealed record ClimatologyOptions(
+internal sealed record ClimatologyOptions(
     IReadOnlyList<string> Inputs,
     string Variable,
     ClimatologyKind Kind,
@@ -27,7 +27,7 @@ public sealed record ClimatologyOptions(
     IReadOnlyList<string>? PartialIn = null,
     IReadOnlyDictionary<string, string>? Attributes = null);
 
-public sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlots, TimePeriod Base, IReadOnlyList<string> Warnings);
+internal sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlots, TimePeriod Base, IReadOnlyList<string> Warnings);
 
 /// <summary>
 /// `griddrift climatology`: streams the frames of the base period once, adds each to the
@@ -38,7 +38,7 @@ public sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlot
 /// gathering merges the shards' states (<see cref="ClimatologyOptions.PartialIn"/>) and writes
 /// the climatology exactly as a one-machine run would.
 /// </summary>
-public static class ClimatologyStep
+internal static class ClimatologyStep
 {
     public const double NormalYears = 30;
 

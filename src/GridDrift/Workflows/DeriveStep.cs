@@ -10,7 +10,7 @@ using GridDrift.Results;
 
 namespace GridDrift.Workflows;
 
-public sealed record DeriveOptions(
+internal sealed record DeriveOptions(
     IReadOnlyList<string> Inputs,
     string Quantity,
     string Output,
@@ -22,7 +22,7 @@ public sealed record DeriveOptions(
     string? Pressure = null,
     string? Units = null);
 
-public sealed record DeriveSummary(int Frames, int Levels, string Variable);
+internal sealed record DeriveSummary(int Frames, int Levels, string Variable);
 
 /// <summary>
 /// `griddrift derive column-water-vapour`: total column water vapour (1/g)∫q dp from specific
@@ -31,7 +31,7 @@ public sealed record DeriveSummary(int Frames, int Levels, string Variable);
 /// the pressures are converted (g/kg, kg kg-1, 1; hPa, Pa, mbar …). Written as a CF field with
 /// standard_name atmosphere_mass_content_of_water_vapor on the input's horizontal grid.
 /// </summary>
-public static class DeriveStep
+internal static class DeriveStep
 {
     public static DeriveSummary Run(DeriveOptions o, IProgress<(int, int)>? progress = null)
     {

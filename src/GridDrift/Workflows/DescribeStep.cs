@@ -9,7 +9,7 @@ using GridDrift.Results;
 namespace GridDrift.Workflows;
 
 /// <summary>Builds the description of files (and, for several files, of the record they form).</summary>
-public static class DescribeStep
+internal static class DescribeStep
 {
     public static FileDescription DescribeFile(string path)
     {

@@ -12,7 +12,7 @@ using GridDrift.Workflows.Options;
 
 namespace GridDrift.Workflows;
 
-public sealed record EventsOptions(
+internal sealed record EventsOptions(
     string Input,
     string Output,
     string? Quantity = null,
@@ -21,14 +21,14 @@ public sealed record EventsOptions(
     string Command = "griddrift events",
     string? PlotDirectory = null);
 
-public sealed record EventsSummary(int Series, int Events, int ChangePoints, string FlagsTable, string CountsTable, string TrendsTable, string ChangePointsTable, JsonObject Json);
+internal sealed record EventsSummary(int Series, int Events, int ChangePoints, string FlagsTable, string CountsTable, string TrendsTable, string ChangePointsTable, JsonObject Json);
 
 /// <summary>
 /// `griddrift events`: reads a series product, analyses each chosen region's series of one
 /// quantity (<see cref="SeriesAnalysis"/>) and writes four tidy tables — flags, counts, trends,
 /// change points — beside a JSON summary.
 /// </summary>
-public static class EventsStep
+internal static class EventsStep
 {
     public static readonly SeriesAnalysisOptions Defaults = new(
         [Detector.RobustZ, Detector.Hampel, Detector.Iqr, Detector.SeasonalResidual, Detector.Gesd],

@@ -10,11 +10,11 @@ using GridDrift.Results;
 
 namespace GridDrift.Workflows;
 
-public sealed record RegionsOptions(string GridFile, IReadOnlyList<string> Regions, string Output, string? Png = null, string? Variable = null,
+internal sealed record RegionsOptions(string GridFile, IReadOnlyList<string> Regions, string Output, string? Png = null, string? Variable = null,
     double EarthRadius = Sphere.MeanEarthRadius, ClassicVariant? Format = null, string Command = "griddrift regions");
 
 /// <summary>`griddrift regions`: build the masks of regions on a file's grid once, write them and draw them.</summary>
-public static class RegionsStep
+internal static class RegionsStep
 {
     public static (Grid Grid, RegionMask Mask) Run(RegionsOptions o)
     {

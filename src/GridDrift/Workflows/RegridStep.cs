@@ -13,7 +13,7 @@ using GridDrift.Operators.Resampling;
 
 namespace GridDrift.Workflows;
 
-public sealed record RegridOptions(
+internal sealed record RegridOptions(
     IReadOnlyList<string> Inputs,
     string Variable,
     string To,
@@ -26,14 +26,14 @@ public sealed record RegridOptions(
     string? Weights = null,
     string? Units = null);
 
-public sealed record RegridSummary(int Frames, int Written, int Dropped, Grid Target, RemapWeights Weights, bool WeightsReused = false);
+internal sealed record RegridSummary(int Frames, int Written, int Dropped, Grid Target, RemapWeights Weights, bool WeightsReused = false);
 
 /// <summary>
 /// `griddrift regrid`: each frame remapped onto a target grid (`regular:D`, `regular:DLATxDLON` or
 /// the grid of a file) with weights built once (<see cref="ConservativeRemap"/>,
 /// <see cref="BilinearRemap"/>); the output carries the covered fraction of every target cell.
 /// </summary>
-public static class RegridStep
+internal static class RegridStep
 {
     public static RegridSummary Run(RegridOptions o, IProgress<(int, int)>? progress = null)
     {

@@ -14,7 +14,7 @@ using GridDrift.Results;
 
 namespace GridDrift.Workflows;
 
-public sealed record SimilarityOptions(
+internal sealed record SimilarityOptions(
     IReadOnlyList<string> Inputs,
     string Variable,
     IReadOnlyList<string> Regions,
@@ -34,7 +34,7 @@ public sealed record SimilarityOptions(
     string? Units = null,
     FrameSlice? Slice = null);
 
-public sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions);
+internal sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions);
 
 /// <summary>
 /// `griddrift similarity`: pair metrics per region over a record — consecutive frames (lag k)
@@ -42,7 +42,7 @@ public sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier,
 /// lag + workers buffers; the pairs of a batch are computed on the workers and written in time
 /// order, so memory is bounded by the frames in flight, not by the record's length.
 /// </summary>
-public static class SimilarityStep
+internal static class SimilarityStep
 {
     public static SimilaritySummary Run(SimilarityOptions o, IProgress<(int Done, int Total)>? progress = null)
     {

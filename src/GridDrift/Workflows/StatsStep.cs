@@ -11,7 +11,7 @@ using GridDrift.Results;
 
 namespace GridDrift.Workflows;
 
-public sealed record StatsOptions(
+internal sealed record StatsOptions(
     IReadOnlyList<string> Inputs,
     string Variable,
     IReadOnlyList<string> Regions,
@@ -27,14 +27,14 @@ public sealed record StatsOptions(
     FrameSlice? Slice = null);
 
 /// <summary>What a stats run did, for the summary line and for tests.</summary>
-public sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionMask Mask);
+internal sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionMask Mask);
 
 /// <summary>
 /// `griddrift stats`: area-weighted statistics per frame and region, streamed. Frames are read
 /// and reduced by a pool of workers, one frame each, and written in time order; frames in
 /// flight are bounded by the worker count, so memory does not grow with the record.
 /// </summary>
-public static class StatsStep
+internal static class StatsStep
 {
     public static StatsSummary Run(StatsOptions o, IProgress<(int Done, int Total)>? progress = null)
     {

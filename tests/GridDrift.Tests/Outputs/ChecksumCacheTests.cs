@@ -9,18 +9,18 @@ public class ChecksumCacheTests
     // FIPS 180-2, appendix B.1: SHA-256("abc")
     const string Abc = "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad";
 
-    /// <summary>Runs <paramref name="body"/> with the checksum cache in DIR/cache, then puts XDG_CACHE_HOME back.</summary>
+    /// <summary>Runs <paramref name="body"/> with the checksum cache in DIR/cache, then puts the settings back.</summary>
     static void WithCacheIn(TempFolder dir, Action body)
     {
-        string previous = Environment.GetEnvironmentVariable("XDG_CACHE_HOME") ?? "";
+        var previous = GridDriftSettings.Current;
         try
         {
-            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", dir.File("cache"));
+            GridDriftSettings.Current = previous with { RememberChecksums = true, ChecksumFile = Path.Combine(dir.File("cache"), "griddrift", "sha256.tsv") };
             body();
         }
         finally
         {
-            Environment.SetEnvironmentVariable("XDG_CACHE_HOME", previous == "" ? null : previous);
+            GridDriftSettings.Current = previous;
         }
     }
 

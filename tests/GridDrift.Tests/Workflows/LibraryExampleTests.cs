@@ -1,4 +1,5 @@
 using System.Text.Json;
+using GridDrift;
 using GridDrift.Operators.Climatology;
 using GridDrift.Outputs.Series;
 using GridDrift.Operators.Similarity;
@@ -84,5 +85,10 @@ public class LibraryExampleTests
         int begin = source.IndexOf("// example:begin", StringComparison.Ordinal), end = source.IndexOf("// example:end", StringComparison.Ordinal);
         var tested = Lines(source[(begin + 16)..end].Split('\n'));
         Assert.Equal(tested, documented);
+        // the page's using directives are ones this file compiles with
+        var usings = Lines(source.Split('\n')).Where(l => l.StartsWith("using ", StringComparison.Ordinal) && l.EndsWith(';') && !l.Contains('=')).ToHashSet();
+        var documentedUsings = Lines(doc[(open + 10)..close].Split('\n')).Where(l => l.StartsWith("using ", StringComparison.Ordinal) && !l.Contains('=')).ToArray();
+        Assert.NotEmpty(documentedUsings);
+        Assert.All(documentedUsings, u => Assert.Contains(u, usings));
     }
 }

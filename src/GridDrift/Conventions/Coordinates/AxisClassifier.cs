@@ -9,7 +9,7 @@ namespace GridDrift.Conventions.Coordinates;
 /// for vertical axes (§4.3), "UNIT since DATE" for time (§4.4). Variable names are consulted
 /// last, as a common-practice fallback for files that carry no CF attributes.
 /// </summary>
-public static class AxisClassifier
+internal static class AxisClassifier
 {
     static readonly HashSet<string> LatitudeUnits = new(StringComparer.OrdinalIgnoreCase)
         { "degrees_north", "degree_north", "degree_N", "degrees_N", "degreeN", "degreesN" };

@@ -1,7 +1,7 @@
 namespace GridDrift.Conventions.Coordinates;
 
 /// <summary>What a coordinate variable measures (CF Conventions §4).</summary>
-public enum AxisRole
+internal enum AxisRole
 {
     None,
     Time,

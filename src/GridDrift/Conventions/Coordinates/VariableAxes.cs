@@ -8,7 +8,7 @@ namespace GridDrift.Conventions.Coordinates;
 /// attribute (CF §5.2, e.g. 2-D latitude/longitude of a curvilinear grid) and the grid_mapping
 /// variable (CF §5.6).
 /// </summary>
-public sealed class VariableAxes
+internal sealed class VariableAxes
 {
     public required NcVariable Data { get; init; }
     /// <summary>Per dimension of <see cref="Data"/>: its coordinate variable, or null.</summary>

@@ -3,7 +3,7 @@ using GridDrift.Formats;
 namespace GridDrift.Conventions.Coordinates;
 
 /// <summary>The CF role of every variable of a file, for `describe`.</summary>
-public static class VariableRoles
+internal static class VariableRoles
 {
     public static IReadOnlyDictionary<string, string> Of(IDatasetReader reader)
     {

@@ -7,7 +7,7 @@ namespace GridDrift.Conventions.Time;
 /// that is not leap has no standard date and its frame is dropped (and counted). 360_day dates
 /// (30 February) cannot keep their dates and are refused rather than silently shifted.
 /// </summary>
-public static class CalendarAlignment
+internal static class CalendarAlignment
 {
     public static bool CanAlign(CfCalendar from, CfCalendar to) =>
         from == to || (to is CfCalendar.Standard or CfCalendar.ProlepticGregorian && from is CfCalendar.NoLeap or CfCalendar.AllLeap or CfCalendar.Standard or CfCalendar.ProlepticGregorian);

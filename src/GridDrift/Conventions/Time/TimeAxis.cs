@@ -3,7 +3,7 @@ using GridDrift.Formats;
 namespace GridDrift.Conventions.Time;
 
 /// <summary>A decoded time coordinate: its units, calendar and instants, in file order.</summary>
-public sealed class TimeAxis
+internal sealed class TimeAxis
 {
     public required string VariableName { get; init; }
     public required TimeUnits Units { get; init; }

@@ -5,7 +5,7 @@ namespace GridDrift.Conventions.Time;
 /// month or year (monthly and yearly data have steps of varying length). Written as an ISO 8601
 /// duration ("PT3H", "P1D", "P1M").
 /// </summary>
-public readonly record struct TimeStep(long Micros, int Months)
+internal readonly record struct TimeStep(long Micros, int Months)
 {
     public bool IsCalendarMonths => Months > 0;
 

@@ -9,7 +9,7 @@ namespace GridDrift.Conventions.Units;
 /// strings such as "K", "degC", "kg kg-1", "g/kg", "1", "%", "Pa", "hPa", "millibars", "mm",
 /// "kg m-2", "m**2 s**-2", "m2 s-2", "m^2/s^2".
 /// </summary>
-public sealed record Unit(double Scale, double Offset, int Kilogram, int Metre, int Second, int Kelvin, int Mole, string Text)
+internal sealed record Unit(double Scale, double Offset, int Kilogram, int Metre, int Second, int Kelvin, int Mole, string Text)
 {
     public bool SameDimension(Unit other) =>
         Kilogram == other.Kilogram && Metre == other.Metre && Second == other.Second && Kelvin == other.Kelvin && Mole == other.Mole;

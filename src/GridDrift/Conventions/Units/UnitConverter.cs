@@ -1,7 +1,7 @@
 namespace GridDrift.Conventions.Units;
 
 /// <summary>Converts values between two units of the same dimension: x_to = (scale_from · x + offset_from − offset_to) / scale_to.</summary>
-public sealed class UnitConverter
+internal sealed class UnitConverter
 {
     public Unit From { get; }
     public Unit To { get; }

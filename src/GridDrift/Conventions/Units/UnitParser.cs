@@ -10,7 +10,7 @@ namespace GridDrift.Conventions.Units;
 /// definitions (common practice: 1 bar = 10⁵ Pa, 1 inch = 0.0254 m, 0 °C = 273.15 K,
 /// 1 °F = 5/9 K with 0 °F = 459.67 °R).
 /// </summary>
-public static partial class UnitParser
+internal static partial class UnitParser
 {
     static readonly Unit One = new(1, 0, 0, 0, 0, 0, 0, "1");
 

@@ -11,7 +11,7 @@ namespace GridDrift.Conventions.Values;
 /// Decoding runs mask then unpack; encoding runs pack then fill, so a round trip is exact for
 /// every value the packed type can represent. Arithmetic is in float64; output is float32.
 /// </summary>
-public sealed class ValueCodec
+internal sealed class ValueCodec
 {
     readonly double[] _missing;
     readonly double _validMin;

@@ -8,7 +8,7 @@ namespace GridDrift.Formats.Classic;
 /// specification). Big-endian on disk; record variables interleaved one record at a time;
 /// numrecs may be STREAMING (all ones), in which case it follows from the file size.
 /// </summary>
-public sealed class ClassicReader : IDatasetReader, IStoredFrameLayout
+internal sealed class ClassicReader : IDatasetReader, IStoredFrameLayout
 {
     readonly SafeFileHandle _handle;
     readonly Dictionary<NcVariable, VariableLayout> _layouts = new(ReferenceEqualityComparer.Instance);

@@ -13,7 +13,7 @@ namespace GridDrift.Formats.Classic;
 /// the temporary file is deleted: an interrupted run never leaves a half-written product.
 /// CDF-5 is chosen by itself when a variable is too large for CDF-2 or has a CDF-5-only type.
 /// </summary>
-public sealed class ClassicWriter : IDisposable
+internal sealed class ClassicWriter : IDisposable
 {
     /// <summary>CDF-2 stores vsize in 32 bits; netCDF-C limits a variable (or a record's slab) to 2^32 − 4 bytes.</summary>
     const long Cdf2MaxVariableBytes = 4294967292;

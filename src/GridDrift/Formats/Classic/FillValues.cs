@@ -6,7 +6,7 @@ namespace GridDrift.Formats.Classic;
 /// The default fill values of the NetCDF specification (netcdf.h NC_FILL_*), used for data
 /// a writer never wrote when the variable declares no _FillValue of its own.
 /// </summary>
-public static class FillValues
+internal static class FillValues
 {
     public static object DefaultTyped(NcType type) => type switch
     {

@@ -11,7 +11,7 @@ namespace GridDrift.Formats.Hdf5;
 /// its dimensions, datasets without scales get phony dimensions, nested groups are flattened
 /// into "group/name" paths, and netCDF's bookkeeping attributes are hidden.
 /// </summary>
-public sealed class Hdf5Reader : IDatasetReader
+internal sealed class Hdf5Reader : IDatasetReader
 {
     const string PureDimensionMarker = "This is a netCDF dimension but not a netCDF variable";
     static readonly HashSet<string> HiddenAttributes =

@@ -16,7 +16,7 @@ public sealed record Nc4Options(int Deflate = 1, bool Shuffle = false)
 /// record at a time, so memory is one frame whatever the file's length; the copy is written
 /// under a temporary name and renamed when complete.
 /// </summary>
-public static unsafe class Nc4Converter
+internal static unsafe class Nc4Converter
 {
     public static void Convert(string classicPath, string nc4Path, Nc4Options options)
     {

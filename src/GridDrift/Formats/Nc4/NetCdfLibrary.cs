@@ -25,7 +25,7 @@ internal static unsafe partial class NetCdfLibrary
     /// <summary>GRIDDRIFT_LIBNETCDF names the library file where it is not on the loader's path (a cluster's module, a conda environment).</summary>
     static (bool, string) Load()
     {
-        string? chosen = Environment.GetEnvironmentVariable("GRIDDRIFT_LIBNETCDF");
+        string? chosen = GridDriftSettings.Current.NetCdfLibrary;
         if (!string.IsNullOrEmpty(chosen) && !NativeLibrary.TryLoad(chosen, out _))
             return (false, $"the netCDF-C library GRIDDRIFT_LIBNETCDF names ({chosen}) cannot be loaded: on Debian or Ubuntu, apt-get install libnetcdf19, or point GRIDDRIFT_LIBNETCDF at libnetcdf.so");
         foreach (var candidate in string.IsNullOrEmpty(chosen) ? new[] { "libnetcdf.so.19", "libnetcdf.so", "libnetcdf.so.22", "libnetcdf.so.18", "libnetcdf.dylib", "netcdf.dll" } : [chosen])

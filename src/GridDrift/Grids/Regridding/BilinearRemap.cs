@@ -7,7 +7,7 @@ namespace GridDrift.Grids.Regridding;
 /// otherwise targets outside the source's longitudes get no value. Beyond the outermost source
 /// latitudes (towards the poles) the outermost row is used, interpolated in longitude only.
 /// </summary>
-public static class BilinearRemap
+internal static class BilinearRemap
 {
     public static RemapWeights Build(Grid source, Grid target)
     {

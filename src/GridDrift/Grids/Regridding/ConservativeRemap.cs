@@ -11,7 +11,7 @@ namespace GridDrift.Grids.Regridding;
 /// goes to the target cell holding its centre. The source integral is kept exactly; the overlap
 /// areas are approximate, to the sub-cell size.
 /// </summary>
-public static class ConservativeRemap
+internal static class ConservativeRemap
 {
     public const int SamplesPerSide = 8;
 

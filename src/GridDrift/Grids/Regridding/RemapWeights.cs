@@ -7,7 +7,7 @@ namespace GridDrift.Grids.Regridding;
 /// fraction is the valid weight over the full weight of the target cell (for conservative
 /// weights, an area fraction).
 /// </summary>
-public sealed class RemapWeights
+internal sealed class RemapWeights
 {
     public required int SourceCells { get; init; }
     public required int TargetCells { get; init; }

@@ -6,7 +6,7 @@ namespace GridDrift.Grids.Regridding;
 /// Target grid specs: `regular:D` or `regular:DLATxDLON` — cell edges at ±90° and at longitude
 /// 0, DLON, 2·DLON …, so centres at −90 + DLAT/2 … and DLON/2 … (DESIGN.md).
 /// </summary>
-public static class TargetGrids
+internal static class TargetGrids
 {
     public static Grid? TryParse(string spec, double radius = Sphere.MeanEarthRadius)
     {

@@ -10,7 +10,7 @@ namespace GridDrift.Grids.Regridding;
 /// column(entry) = source frame position, weight(entry), target_weight(target_cell). A saved file is
 /// reused only for the same grids and method.
 /// </summary>
-public static class WeightsFile
+internal static class WeightsFile
 {
     public static void Save(string path, RemapWeights w, Grid source, Grid target)
     {

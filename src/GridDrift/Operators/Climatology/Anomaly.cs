@@ -1,7 +1,7 @@
 namespace GridDrift.Operators.Climatology;
 
 /// <summary>Departures of a field from its climatology.</summary>
-public enum AnomalyKind
+internal enum AnomalyKind
 {
     /// <summary>x − mean, in the variable's units.</summary>
     Absolute,
@@ -11,7 +11,7 @@ public enum AnomalyKind
     Standardized,
 }
 
-public static class Anomaly
+internal static class Anomaly
 {
     /// <summary>A climatological mean this close to zero gives no relative anomaly.</summary>
     public const double RelativeGuard = 1e-12;

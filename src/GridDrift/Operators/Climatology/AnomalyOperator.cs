@@ -11,7 +11,7 @@ namespace GridDrift.Operators.Climatology;
 /// handed on as fields and, with a region mask, as area-weighted region means. A frame that falls
 /// in no slot (a time of day the climatology does not hold) is all missing.
 /// </summary>
-public sealed class AnomalyOperator : IFrameOperator<AnomalyOperator.Worker>
+internal sealed class AnomalyOperator : IFrameOperator<AnomalyOperator.Worker>
 {
     readonly AnomalyKind _kind;
     readonly SlotScheme _scheme;

@@ -4,7 +4,7 @@ using GridDrift.Frames;
 namespace GridDrift.Operators.Climatology;
 
 /// <summary>The base period of a climatology: the one asked for, else the whole record.</summary>
-public static class BasePeriods
+internal static class BasePeriods
 {
     /// <summary>--base, else the whole record: its first time up to one step past its last.</summary>
     public static TimePeriod Resolve(FrameSource source, string? text)

@@ -3,7 +3,7 @@ using MathNet.Numerics.LinearAlgebra;
 namespace GridDrift.Operators.Climatology;
 
 /// <summary>A finished climatology, handed out one slot at a time: mean, population standard deviation and sample count per cell.</summary>
-public interface IClimatologySlots
+internal interface IClimatologySlots
 {
     int Slots { get; }
     int Cells { get; }
@@ -16,7 +16,7 @@ public interface IClimatologySlots
 /// <see cref="MomentState"/>). Without smoothing the state itself hands out its slots, so no
 /// second copy of the climatology is made.
 /// </summary>
-public sealed class ClimatologyFields : IClimatologySlots
+internal sealed class ClimatologyFields : IClimatologySlots
 {
     public int Slots { get; }
     public int Cells { get; }

@@ -11,7 +11,7 @@ namespace GridDrift.Operators.Climatology;
 /// shards of one record) therefore merge into the state of them all.
 /// Layout: slot-major, slot s of cell c at s × Cells + c.
 /// </summary>
-public sealed class MomentState : IClimatologySlots, IDisposable
+internal sealed class MomentState : IClimatologySlots, IDisposable
 {
     readonly LargeBuffer<double> _count, _mean, _m2;
 

@@ -9,7 +9,7 @@ namespace GridDrift.Operators.Climatology;
 /// and each piece of the cells takes every group in turn: a cell's moments are only ever updated
 /// by one worker.
 /// </summary>
-public sealed class SlotAccumulator : IFrameBatchOperator
+internal sealed class SlotAccumulator : IFrameBatchOperator
 {
     readonly SlotScheme _scheme;
     readonly MomentState _state;

@@ -3,7 +3,7 @@ using GridDrift.Conventions.Time;
 namespace GridDrift.Operators.Climatology;
 
 /// <summary>The slot times and climatological bounds of each slot (CF Conventions §7.4).</summary>
-public sealed record SlotTimes(CfTime[] Times, CfTime[] BoundsStart, CfTime[] BoundsEnd);
+internal sealed record SlotTimes(CfTime[] Times, CfTime[] BoundsStart, CfTime[] BoundsEnd);
 
 /// <summary>
 /// The time coordinate and climatological bounds of each slot, from the samples that filled it:
@@ -14,7 +14,7 @@ public sealed record SlotTimes(CfTime[] Times, CfTime[] BoundsStart, CfTime[] Bo
 /// first sample's time for diurnal slots). A slot without samples gets its nominal period in the
 /// first year of the base period, zero-length.
 /// </summary>
-public static class SlotPeriods
+internal static class SlotPeriods
 {
     public static SlotTimes From(SlotScheme scheme, IReadOnlyList<CfTime> samples, TimePeriod basePeriod, TimeStep? step)
     {

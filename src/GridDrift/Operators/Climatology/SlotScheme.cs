@@ -15,7 +15,7 @@ namespace GridDrift.Operators.Climatology;
 /// in the data (24 for hourly data, 8 for three-hourly), sorted.</item>
 /// </list>
 /// </summary>
-public sealed class SlotScheme
+internal sealed class SlotScheme
 {
     static readonly int[] LeapMonthStart = [0, 31, 60, 91, 121, 152, 182, 213, 244, 274, 305, 335];
 

@@ -3,7 +3,7 @@ using System.Globalization;
 namespace GridDrift.Operators.Climatology;
 
 /// <summary>How a day-of-year climatology is smoothed: `harmonics:N` or `window:DAYS`.</summary>
-public abstract record Smoothing
+internal abstract record Smoothing
 {
     public sealed record Harmonics(int Count) : Smoothing;
     public sealed record Window(int Days) : Smoothing;

@@ -15,7 +15,7 @@ namespace GridDrift.Operators.Physics;
 /// <param name="qScale">factor taking the humidity's units to kg kg-1</param>
 /// <param name="surfaceScale">factor taking the surface pressure's units to Pa</param>
 /// <param name="output">from kg m-2 to the units asked for, or null</param>
-public sealed class ColumnWaterVapourOperator(double[] levels, int cells, double qScale, double surfaceScale, UnitConverter? output, bool bounded,
+internal sealed class ColumnWaterVapourOperator(double[] levels, int cells, double qScale, double surfaceScale, UnitConverter? output, bool bounded,
     IReadOnlyList<CfTime> times, IFieldSink sink) : IFrameOperator<ColumnWaterVapourOperator.Worker>
 {
     public sealed class Worker(int levels, int cells)

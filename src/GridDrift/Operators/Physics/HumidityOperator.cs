@@ -6,7 +6,7 @@ using GridDrift.Results;
 namespace GridDrift.Operators.Physics;
 
 /// <summary>What <see cref="HumidityOperator"/> derives.</summary>
-public enum HumidityQuantity
+internal enum HumidityQuantity
 {
     /// <summary>Relative humidity (%) from specific humidity, temperature and pressure.</summary>
     RelativeHumidity,
@@ -24,7 +24,7 @@ public enum HumidityQuantity
 /// <param name="temperature">the temperature's units to K (relative humidity only)</param>
 /// <param name="pressureScale">factor taking the pressure field's units to Pa</param>
 /// <param name="output">from % or kg kg-1 to the units asked for, or null</param>
-public sealed class HumidityOperator(HumidityQuantity quantity, double[]? levels, int cellsPerLevel, UnitConverter input, UnitConverter? temperature, double pressureScale,
+internal sealed class HumidityOperator(HumidityQuantity quantity, double[]? levels, int cellsPerLevel, UnitConverter input, UnitConverter? temperature, double pressureScale,
     UnitConverter? output, int frameLength, IReadOnlyList<CfTime> times, IFieldSink sink) : IFrameOperator<float[]>
 {
     public float[] NewWorker() => new float[frameLength];

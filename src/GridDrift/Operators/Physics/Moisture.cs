@@ -7,7 +7,7 @@ namespace GridDrift.Operators.Physics;
 /// Vapour pressure from specific humidity e = q p / (ε + (1 − ε) q) and back
 /// q = ε e / (p − (1 − ε) e), ε = R_d / R_v = 0.622 (common practice).
 /// </summary>
-public static class Moisture
+internal static class Moisture
 {
     public const double Epsilon = 0.622;
     public const double StandardGravity = 9.80665; // m s-2, the CGPM's standard acceleration of gravity

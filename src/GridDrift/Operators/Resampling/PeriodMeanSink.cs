@@ -7,7 +7,7 @@ namespace GridDrift.Operators.Resampling;
 /// Turns a stream of fields and their covered fractions into means over periods
 /// (<see cref="PeriodMeans"/>), each handed on with the period's bounds and stamped with its middle.
 /// </summary>
-public sealed class PeriodMeanSink : ICoveredFieldSink
+internal sealed class PeriodMeanSink : ICoveredFieldSink
 {
     readonly PeriodMeans _fields, _fractions;
     readonly ICoveredFieldSink _next;

@@ -3,7 +3,7 @@ using GridDrift.Conventions.Time;
 namespace GridDrift.Operators.Resampling;
 
 /// <summary>How frames are grouped into means: each frame as it is, periods of whole hours from midnight, calendar days or months.</summary>
-public enum Resampling { None, Hours, Daily, Monthly }
+internal enum Resampling { None, Hours, Daily, Monthly }
 
 /// <summary>
 /// Means of consecutive frames over periods of hours, calendar days or months, streamed: the running sum and count
@@ -11,7 +11,7 @@ public enum Resampling { None, Hours, Daily, Monthly }
 /// the period's bounds, when a frame of a later period arrives or the record ends. The time of a
 /// mean is the middle of its period (CF cell_methods "time: mean", time bounds = the period).
 /// </summary>
-public sealed class PeriodMeans
+internal sealed class PeriodMeans
 {
     readonly Resampling _kind;
     readonly int _hours;

@@ -6,7 +6,7 @@ using GridDrift.Grids.Regridding;
 namespace GridDrift.Operators.Resampling;
 
 /// <summary>Each frame remapped with weights built once (<see cref="RemapWeights.Apply"/>), handed on in time order with its covered fraction.</summary>
-public sealed class RegridOperator(RemapWeights weights, IReadOnlyList<CfTime> times, ICoveredFieldSink sink) : IFrameOperator<RegridOperator.Worker>
+internal sealed class RegridOperator(RemapWeights weights, IReadOnlyList<CfTime> times, ICoveredFieldSink sink) : IFrameOperator<RegridOperator.Worker>
 {
     public sealed class Worker(int cells)
     {

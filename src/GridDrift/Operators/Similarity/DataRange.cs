@@ -8,7 +8,7 @@ namespace GridDrift.Operators.Similarity;
 /// variable's valid_min/valid_max (or valid_range), else a documented default for its
 /// standard_name. Never a frame's own minimum and maximum: frames must stay comparable.
 /// </summary>
-public sealed record DataRange(double Low, double High, string Source)
+internal sealed record DataRange(double Low, double High, string Source)
 {
     public double Width => High - Low;
 

@@ -6,7 +6,7 @@ namespace GridDrift.Operators.Similarity;
 /// of Wang et al. (2004). MATLAB's fspecial('gaussian', N, σ) is the outer product of the same
 /// kernel with r = (N − 1)/2.
 /// </summary>
-public static class GaussianKernel
+internal static class GaussianKernel
 {
     public static double[] Truncated(double sigma, double truncate = 3.5) => WithRadius(sigma, (int)(truncate * sigma + 0.5));
 

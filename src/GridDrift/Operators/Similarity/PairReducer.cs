@@ -9,7 +9,7 @@ namespace GridDrift.Operators.Similarity;
 /// shifted per region by its first valid earlier value, so small regional variances keep
 /// their digits whatever the regional mean.
 /// </summary>
-public static class PairReducer
+internal static class PairReducer
 {
     public const int Stride = 5;
 

@@ -6,7 +6,7 @@ namespace GridDrift.Operators.Similarity;
 /// bounding index box, values rescaled to 0–255 over the data range; missing cells take the box's
 /// mean of that frame.
 /// </summary>
-public static class RegionVif
+internal static class RegionVif
 {
     public static double OfBox(Vif vif, RegionBox box, int gridColumns, ReadOnlySpan<float> a, ReadOnlySpan<float> b, DataRange range, double minValid)
     {

@@ -2,7 +2,7 @@ using System.Runtime.Intrinsics;
 namespace GridDrift.Operators.Similarity;
 
 /// <summary>How a filter sees beyond the edge of a row or column.</summary>
-public enum Edge
+internal enum Edge
 {
     /// <summary>Half-sample symmetric (… c b a | a b c …), scipy.ndimage's 'reflect'.</summary>
     Reflect,
@@ -18,7 +18,7 @@ public enum Edge
 /// loaded row serves all four; the working set stays in cache however large the field. The
 /// edge rules (<see cref="EdgeIndex"/>) serve the streaming SSIM filter.
 /// </summary>
-public sealed class SeparableFilter
+internal sealed class SeparableFilter
 {
     const int Block = 4;
     readonly double[] _kernel;

@@ -15,7 +15,7 @@ namespace GridDrift.Operators.Similarity;
 /// by one value of the frame pair, which keeps the moments exact to far better than 1e-12
 /// relative for physical fields. One reducer per worker: its row-sum buffers are reused.
 /// </summary>
-public sealed class SeparablePairReducer
+internal sealed class SeparablePairReducer
 {
     const int Sums = 9; // Σw, Σw·a, Σw·b, Σw·a², Σw·b², Σw·a·b, Σw·|d|, Σw·d², Σw·d, with d = b − a
     readonly SeparablePlan _plan;

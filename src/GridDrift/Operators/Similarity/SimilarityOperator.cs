@@ -13,7 +13,7 @@ namespace GridDrift.Operators.Similarity;
 /// and bias — handed to a series sink in time order, stamped with the later frame's time (and the
 /// earlier one's, for frame-to-frame pairs).
 /// </summary>
-public sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Worker>
+internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Worker>
 {
     readonly Grid _grid;
     readonly RegionMask _mask;

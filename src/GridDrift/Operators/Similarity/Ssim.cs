@@ -20,7 +20,7 @@ namespace GridDrift.Operators.Similarity;
 /// The filter streams row by row: the horizontally filtered rows of the local fields live in a
 /// ring of 11 rows, so a worker's memory is a few rows, not several copies of the frame.
 /// </summary>
-public sealed class Ssim
+internal sealed class Ssim
 {
     public const double K1 = 0.01, K2 = 0.03, Sigma = 1.5;
     /// <summary>Fraction of the window weight that must fall on valid cells for a value.</summary>

@@ -13,7 +13,7 @@ namespace GridDrift.Operators.Similarity;
 /// scales unweighted. The noise variance assumes 8-bit grey levels, so values are first rescaled
 /// to 0–255 over the fixed data range. Reference = earlier frame, distorted = later frame.
 /// </summary>
-public sealed class Vif
+internal sealed class Vif
 {
     const double SigmaNoise = 2, Guard = 1e-10;
     readonly SeparableFilter[] _filters = Enumerable.Range(1, 4)

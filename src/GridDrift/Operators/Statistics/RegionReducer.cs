@@ -11,7 +11,7 @@ namespace GridDrift.Operators.Statistics;
 /// float64 sums exact to ~1e-15 relative for physical fields.
 /// One reducer per worker thread: its scratch buffers are reused frame after frame.
 /// </summary>
-public sealed class RegionReducer
+internal sealed class RegionReducer
 {
     readonly RegionMask _mask;
     readonly RegionStatistic[] _statistics;

@@ -9,7 +9,7 @@ namespace GridDrift.Operators.Statistics;
 /// Area-weighted statistics of each frame per region (<see cref="RegionReducer"/>), handed to a
 /// series sink in time order; a region below the minimum valid fraction gives NaN.
 /// </summary>
-public sealed class RegionStatisticsOperator : IFrameOperator<RegionStatisticsOperator.Worker>
+internal sealed class RegionStatisticsOperator : IFrameOperator<RegionStatisticsOperator.Worker>
 {
     readonly RegionMask _mask;
     readonly SeparablePlan? _plan;

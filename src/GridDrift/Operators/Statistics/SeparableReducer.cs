@@ -11,7 +11,7 @@ namespace GridDrift.Operators.Statistics;
 /// the frame (its first valid cell), which keeps the variance exact to far better than 1e-12
 /// relative for physical fields. One reducer per worker: its row-sum buffers are reused.
 /// </summary>
-public sealed class SeparableReducer
+internal sealed class SeparableReducer
 {
     readonly SeparablePlan _plan;
     // per range, per row: Σw, Σw·d, Σw·d², min, max

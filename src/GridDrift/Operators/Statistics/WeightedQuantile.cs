@@ -10,7 +10,7 @@ namespace GridDrift.Operators.Statistics;
 /// neighbouring bins that hold the bracketing values, and only those are sorted; the weight of
 /// all lower bins is known exactly, so the result is the same as a full sort's.
 /// </summary>
-public static class WeightedQuantile
+internal static class WeightedQuantile
 {
     const int SortBelow = 4096;
     const int Bins = 4096;

@@ -9,7 +9,7 @@ namespace GridDrift.Outputs.Description;
 /// shape, units, standard_name …), time (calendar, units, first, last, count, step as an ISO 8601
 /// duration, gaps) and grid.
 /// </summary>
-public static class DescriptionJson
+internal static class DescriptionJson
 {
     static readonly JsonWriterOptions Options = new() { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
 

@@ -4,7 +4,7 @@ using GridDrift.Results;
 namespace GridDrift.Outputs.Description;
 
 /// <summary>The human-readable form of `describe`.</summary>
-public static class DescriptionText
+internal static class DescriptionText
 {
     public static string Render(FileDescription f, bool withAttributes = false)
     {

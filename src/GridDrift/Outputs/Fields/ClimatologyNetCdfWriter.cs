@@ -13,7 +13,7 @@ namespace GridDrift.Outputs.Fields;
 /// variable under the input's name with NAME_std and NAME_count beside it, on the input's own
 /// grid, with the base period, kind and smoothing in the global attributes.
 /// </summary>
-public static class ClimatologyNetCdfWriter
+internal static class ClimatologyNetCdfWriter
 {
     public const float Fill = 9.96921e36f; // netCDF's default float fill (NC_FILL_FLOAT)
 

@@ -9,7 +9,7 @@ namespace GridDrift.Outputs.Fields;
 /// a <see cref="FieldTemplate"/>), a time dimension first, and whatever variables the product
 /// adds. Written under a temporary name and renamed by <see cref="Commit"/>.
 /// </summary>
-public sealed class FieldNetCdfWriter : IDisposable
+internal sealed class FieldNetCdfWriter : IDisposable
 {
     readonly FieldTemplate _template;
     readonly List<(ClassicWriter.Definition Definition, double[] Values)> _copies = [];

@@ -5,7 +5,7 @@ using GridDrift.Results;
 namespace GridDrift.Outputs.Fields;
 
 /// <summary>Fields as records of a field file: the time, then the field with missing values as the fill value.</summary>
-public sealed class FieldRecords(FieldNetCdfWriter w, ClassicWriter.Definition time, ClassicWriter.Definition data, TimeUnits units, int cells) : IFieldSink
+internal sealed class FieldRecords(FieldNetCdfWriter w, ClassicWriter.Definition time, ClassicWriter.Definition data, TimeUnits units, int cells) : IFieldSink
 {
     readonly float[] _record = new float[cells];
     readonly double[] _time = new double[1];

@@ -9,7 +9,7 @@ namespace GridDrift.Outputs.Fields;
 /// 2-D auxiliary latitude/longitude, their bounds) and the grid_mapping variable, with values
 /// unpacked to float64, and the data variable's descriptive attributes.
 /// </summary>
-public sealed class FieldTemplate
+internal sealed class FieldTemplate
 {
     public sealed record CopiedVariable(string Name, string[] Dimensions, IReadOnlyList<NcAttribute> Attributes, double[] Values);
 

@@ -14,7 +14,7 @@ namespace GridDrift.Outputs.Masks;
 /// over the grid's y and x) and cell_fraction (the part of the cell inside region r) belong
 /// to region r. The grid's coordinates are copied so the file stands alone.
 /// </summary>
-public static class MaskNetCdfWriter
+internal static class MaskNetCdfWriter
 {
     public static void Write(string path, Grid grid, RegionMask mask, IReadOnlyList<string> specs, Provenance provenance, ClassicVariant? variant = null)
     {

@@ -9,7 +9,7 @@ namespace GridDrift.Outputs.Plots;
 /// counts with Sen trend lines before and after a change; a region × year importance heatmap.
 /// Time runs in decimal years of the record's calendar. Written under a temporary name.
 /// </summary>
-public static class AnalysisPlots
+internal static class AnalysisPlots
 {
     public const int Width = 1200, Height = 600;
 

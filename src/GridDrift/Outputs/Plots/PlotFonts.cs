@@ -5,7 +5,7 @@ namespace GridDrift.Outputs.Plots;
 /// explicitly: this finds a TrueType family on the machine (DejaVu Sans, Liberation Sans, Lato)
 /// and registers both faces once. Without one, plots are refused with the package to install.
 /// </summary>
-public static class PlotFonts
+internal static class PlotFonts
 {
     static readonly object Gate = new();
     static string? _family;
@@ -23,7 +23,7 @@ public static class PlotFonts
         lock (Gate)
         {
             if (_family is not null) return _family;
-            var roots = new[] { Environment.GetEnvironmentVariable("GRIDDRIFT_FONT_DIR"), "/usr/share/fonts/truetype", "/usr/local/share/fonts", "/Library/Fonts", @"C:\Windows\Fonts" };
+            var roots = new[] { GridDriftSettings.Current.FontFolder, "/usr/share/fonts/truetype", "/usr/local/share/fonts", "/Library/Fonts", @"C:\Windows\Fonts" };
             foreach (var root in roots.Where(r => !string.IsNullOrEmpty(r)))
                 foreach (var (family, regular, bold) in Candidates)
                 {

@@ -5,7 +5,7 @@ using ScottPlot;
 namespace GridDrift.Outputs.Plots;
 
 /// <summary>A map of regions over the grid's domain: outlines and names on longitude/latitude axes.</summary>
-public static class RegionMapPlot
+internal static class RegionMapPlot
 {
     public static void Save(string path, Grid grid, IReadOnlyList<RegionShape> regions, RegionMask mask, string title)
     {

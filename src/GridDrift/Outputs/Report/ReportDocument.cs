@@ -7,7 +7,7 @@ namespace GridDrift.Outputs.Report;
 /// A report as a list of blocks — headings, paragraphs, tables, figures — rendered to Markdown
 /// and to a self-contained HTML page (figures referenced by relative path).
 /// </summary>
-public sealed class ReportDocument
+internal sealed class ReportDocument
 {
     abstract record Block;
     sealed record Heading(int Level, string Text) : Block;

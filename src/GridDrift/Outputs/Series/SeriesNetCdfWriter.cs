@@ -12,7 +12,7 @@ namespace GridDrift.Outputs.Series;
 /// units, cell_methods and coordinates; time keeps the input's units and calendar. One record
 /// is appended per time step, so memory does not grow with the record.
 /// </summary>
-public sealed class SeriesNetCdfWriter : ISeriesSink
+internal sealed class SeriesNetCdfWriter : ISeriesSink
 {
     readonly ClassicWriter _writer;
     readonly ClassicWriter.Definition _time;

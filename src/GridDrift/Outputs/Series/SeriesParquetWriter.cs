@@ -14,7 +14,7 @@ namespace GridDrift.Outputs.Series;
 /// metadata. Rows are buffered and written a row group at a time, so memory stays bounded.
 /// Written under a temporary name and renamed when complete.
 /// </summary>
-public sealed class SeriesParquetWriter : ISeriesSink
+internal sealed class SeriesParquetWriter : ISeriesSink
 {
     const int RowsPerGroup = 1 << 18;
 

@@ -5,7 +5,7 @@ using GridDrift.Results;
 namespace GridDrift.Outputs.Series;
 
 /// <summary>The series NetCDF and, when asked for, the tidy Parquet table of one run, written together.</summary>
-public sealed class SeriesProducts : ISeriesSink
+internal sealed class SeriesProducts : ISeriesSink
 {
     readonly List<ISeriesSink> _sinks = new();
 

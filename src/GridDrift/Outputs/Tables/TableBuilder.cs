@@ -9,7 +9,7 @@ namespace GridDrift.Outputs.Tables;
 /// float64, integers as int64, flags as booleans; Zstd at the Optimal level; provenance in the
 /// key-value metadata; written under a temporary name and renamed when complete.
 /// </summary>
-public sealed class TableBuilder
+internal sealed class TableBuilder
 {
     enum Kind { Text, Number, Integer, Flag }
 

@@ -1,7 +1,7 @@
 namespace GridDrift.Pipeline.Cluster;
 
 /// <summary>What `griddrift submit` passes to every batch job: the scheduler's own options, unchanged.</summary>
-public sealed record BatchOptions(string? Partition = null, string? Time = null, string? Memory = null, string? Account = null, IReadOnlyList<string>? Extra = null)
+internal sealed record BatchOptions(string? Partition = null, string? Time = null, string? Memory = null, string? Account = null, IReadOnlyList<string>? Extra = null)
 {
     public IEnumerable<string> Directives()
     {

@@ -4,7 +4,7 @@ namespace GridDrift.Pipeline.Cluster;
 /// One stage of a sharded run on a batch cluster: an array job with one task per shard, or a
 /// single job. Each stage starts only once the stage before it has completed (afterok).
 /// </summary>
-public sealed record BatchStage(string Name, string Description, bool Array, string Body)
+internal sealed record BatchStage(string Name, string Description, bool Array, string Body)
 {
     /// <summary>
     /// The stages of a recipe: the shards' slice steps; when the recipe has anomalies, a gather

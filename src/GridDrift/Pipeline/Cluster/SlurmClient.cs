@@ -4,7 +4,7 @@ using System.Text.RegularExpressions;
 namespace GridDrift.Pipeline.Cluster;
 
 /// <summary>The state of one job, or one task of an array job, as `scontrol show job` reports it.</summary>
-public sealed record JobRecord(string JobId, string ArrayJobId, string? ArrayTaskId, string State, string Reason, string ExitCode, string? StdOut)
+internal sealed record JobRecord(string JobId, string ArrayJobId, string? ArrayTaskId, string State, string Reason, string ExitCode, string? StdOut)
 {
     static readonly HashSet<string> Ended = ["COMPLETED", "FAILED", "CANCELLED", "TIMEOUT", "OUT_OF_MEMORY", "NODE_FAIL", "PREEMPTED", "BOOT_FAIL", "DEADLINE", "SPECIAL_EXIT"];
     public bool HasEnded => Ended.Contains(State);
@@ -16,7 +16,7 @@ public sealed record JobRecord(string JobId, string ArrayJobId, string? ArrayTas
 /// not assumed: many clusters and test clusters run without it. `sbatch --wait` is not used
 /// either, since it returns 0 for a job cancelled because its dependency can never be met.
 /// </summary>
-public sealed partial class SlurmClient
+internal sealed partial class SlurmClient
 {
     public static bool Available => Which("sbatch") is not null && Which("scontrol") is not null;
 

@@ -5,12 +5,12 @@ using System.Text.Json.Nodes;
 
 namespace GridDrift.Pipeline.Cluster;
 
-public sealed record SubmitOptions(string Recipe, int Shards, string Griddrift, BatchOptions Batch, bool DryRun = false, bool Wait = false, TimeSpan? PollEvery = null);
+internal sealed record SubmitOptions(string Recipe, int Shards, string Griddrift, BatchOptions Batch, bool DryRun = false, bool Wait = false, TimeSpan? PollEvery = null);
 
 /// <summary>How one task (or single job) of a stage ended.</summary>
-public sealed record TaskOutcome(string Stage, string JobId, string? Task, string State, string Reason, string ExitCode, string Log);
+internal sealed record TaskOutcome(string Stage, string JobId, string? Task, string State, string Reason, string ExitCode, string Log);
 
-public sealed record SubmitReport(IReadOnlyList<(BatchStage Stage, string Script, string? JobId)> Stages, IReadOnlyList<TaskOutcome> Tasks, IReadOnlyList<string> Problems)
+internal sealed record SubmitReport(IReadOnlyList<(BatchStage Stage, string Script, string? JobId)> Stages, IReadOnlyList<TaskOutcome> Tasks, IReadOnlyList<string> Problems)
 {
     public bool Succeeded => Problems.Count == 0;
 }
@@ -22,7 +22,7 @@ public sealed record SubmitReport(IReadOnlyList<(BatchStage Stage, string Script
 /// with its log and the stages it held back. The cluster's scheduler does the scheduling:
 /// GridDrift only describes the jobs.
 /// </summary>
-public static class SlurmSubmission
+internal static class SlurmSubmission
 {
     public static SubmitReport Run(SubmitOptions o, Action<string>? log = null)
     {

@@ -1,7 +1,7 @@
 namespace GridDrift.Workflows.Options;
 
 /// <summary>The known name nearest to a misspelt one, for "did you mean" hints.</summary>
-public static class NearestName
+internal static class NearestName
 {
     /// <summary>The nearest of <paramref name="known"/> when it is within a third of the name's length (at least 2 edits), else null.</summary>
     public static string? Of(string name, IEnumerable<string> known)

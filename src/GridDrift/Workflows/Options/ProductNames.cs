@@ -1,7 +1,7 @@
 namespace GridDrift.Workflows.Options;
 
 /// <summary>The names of products, defined once: a recipe's defaults and the tables written beside a step's main product.</summary>
-public static class ProductNames
+internal static class ProductNames
 {
     public const string Stats = "stats.nc";
     public const string Similarity = "similarity.nc";

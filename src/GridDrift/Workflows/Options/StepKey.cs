@@ -5,7 +5,7 @@ namespace GridDrift.Workflows.Options;
 /// recipe's `NAME = …` in the command's table, with one description, one default and one
 /// check. The check throws FormatException saying what is allowed.
 /// </summary>
-public abstract class StepKey(string name, string description)
+internal abstract class StepKey(string name, string description)
 {
     public string Name { get; } = name;
     public string Description { get; } = description;
@@ -15,7 +15,7 @@ public abstract class StepKey(string name, string description)
 }
 
 /// <inheritdoc />
-public sealed class StepKey<T>(string name, string description, T defaultValue, Action<T>? check = null) : StepKey(name, description)
+internal sealed class StepKey<T>(string name, string description, T defaultValue, Action<T>? check = null) : StepKey(name, description)
 {
     public T Default { get; } = defaultValue;
 
@@ -40,7 +40,7 @@ public sealed class StepKey<T>(string name, string description, T defaultValue, 
 }
 
 /// <summary>Checks the keys share.</summary>
-public static class KeyChecks
+internal static class KeyChecks
 {
     public static Action<double> Between(double low, double high) => v =>
     {

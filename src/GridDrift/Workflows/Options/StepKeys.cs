@@ -6,7 +6,7 @@ using static GridDrift.Workflows.Options.KeyChecks;
 namespace GridDrift.Workflows.Options;
 
 /// <summary>Options several commands share.</summary>
-public static class CommonKeys
+internal static class CommonKeys
 {
     public static readonly StepKey<double> MinValid = new("min-valid", "a region with less than this fraction of its area valid gives NaN", 0.5, Between(0.0, 1.0));
     public static readonly StepKey<string> Out = new("out", "the product to write", "");
@@ -16,7 +16,7 @@ public static class CommonKeys
 }
 
 /// <summary>`griddrift stats` and a recipe's [stats].</summary>
-public static class StatsKeys
+internal static class StatsKeys
 {
     public static readonly StepKey<string> Stat = new("stat", "statistics, comma-separated: mean,std,min,max,p10,p50,p90,valid (default: all)",
         "mean,std,min,max,p10,p50,p90,valid", ListOf(RegionStatistics.Parse));
@@ -29,7 +29,7 @@ public static class StatsKeys
 }
 
 /// <summary>`griddrift similarity` and a recipe's [similarity].</summary>
-public static class SimilarityKeys
+internal static class SimilarityKeys
 {
     public static readonly StepKey<string> Metric = new("metric", "metrics, comma-separated: ssim, vif, corr, rmsd, mean-abs-change, bias (default: ssim,corr,rmsd,mean-abs-change)",
         "ssim,corr,rmsd,mean-abs-change", ListOf(SimilarityMetrics.Parse));
@@ -44,7 +44,7 @@ public static class SimilarityKeys
 }
 
 /// <summary>`griddrift climatology` and a recipe's [climatology].</summary>
-public static class ClimatologyKeys
+internal static class ClimatologyKeys
 {
     public static readonly StepKey<string> By = new("by", "slots: month, day-of-year or hour-by-month (the diurnal cycle of each month)", "month",
         OneOf("month", "day-of-year", "hour-by-month"));
@@ -58,7 +58,7 @@ public static class ClimatologyKeys
 }
 
 /// <summary>`griddrift anomalies` and a recipe's [anomalies].</summary>
-public static class AnomaliesKeys
+internal static class AnomaliesKeys
 {
     public static readonly StepKey<string> Kind = new("kind", "absolute (x − mean), relative (percent of the mean) or standardized (÷ standard deviation)", "absolute",
         OneOf("absolute", "relative", "standardized"));
@@ -71,7 +71,7 @@ public static class AnomaliesKeys
 }
 
 /// <summary>`griddrift events` and a recipe's [events].</summary>
-public static class EventsKeys
+internal static class EventsKeys
 {
     public static readonly StepKey<string> Detect = new("detect", "detectors: robust-z,hampel,iqr,seasonal-residual,gesd (default: all)",
         "robust-z,hampel,iqr,seasonal-residual,gesd", ListOf(EventsStep.ParseDetector));
@@ -88,7 +88,7 @@ public static class EventsKeys
 }
 
 /// <summary>`griddrift attribute` and a recipe's [attribute].</summary>
-public static class AttributeKeys
+internal static class AttributeKeys
 {
     public static readonly StepKey<string> Target = new("target", "the region whose series is explained", "global");
     public static readonly StepKey<string?> Periods = new("periods", "two periods A/B,C/D whose region ranks are compared (default: before/after the target's change point)", null);
@@ -98,7 +98,7 @@ public static class AttributeKeys
 }
 
 /// <summary>The analysis of `griddrift events` from its keys' values, the same for the command line and a recipe.</summary>
-public static class EventsAnalysis
+internal static class EventsAnalysis
 {
     public static Analysis.SeriesAnalysisOptions From(string detect, string on, string window, string changepoints, int consensus, int minSegment) => new(
         StatsKeys.Items(detect).Select(EventsStep.ParseDetector).Distinct().ToArray(),
