@@ -33,13 +33,23 @@ internal static class FrameEngine
             op.Process(states[w], f, new FrameInputs(buffers[w]));
         };
         using var team = new WorkerTeam(workers);
-        for (batch = 0; batch < frames.Count; batch += workers)
+        InBatches(frames.Count, workers, settings, (first, n) =>
         {
-            settings.Cancel.ThrowIfCancellationRequested();
-            int n = Math.Min(workers, frames.Count - batch);
+            batch = first;
             team.Run(n, work);
             for (int w = 0; w < n; w++) op.Complete(states[w], frames[batch + w]);
-            settings.Progress?.Report((batch + n, frames.Count));
+        });
+    }
+
+    /// <summary>Calls <paramref name="run"/>(first, count) for consecutive batches of at most <paramref name="size"/>, stopping when cancelled and reporting progress after each.</summary>
+    static void InBatches(int total, int size, EngineSettings settings, Action<int, int> run)
+    {
+        for (int first = 0; first < total; first += size)
+        {
+            settings.Cancel.ThrowIfCancellationRequested();
+            int n = Math.Min(size, total - first);
+            run(first, n);
+            settings.Progress?.Report((first + n, total));
         }
     }
 
@@ -86,10 +96,9 @@ internal static class FrameEngine
             ReadOnlySpan<float> earlier = pair.Earlier < 0 ? fixedEarlier : ring.Buffer(earlierSlot[w]);
             op.Process(states[w], pair, earlier, ring.Buffer(laterSlot[w]));
         };
-        for (batch = 0; batch < pairs.Count; batch += workers)
+        InBatches(pairs.Count, workers, settings, (first, n) =>
         {
-            settings.Cancel.ThrowIfCancellationRequested();
-            int n = Math.Min(workers, pairs.Count - batch);
+            batch = first;
             ring.BeginBatch();
             for (int w = 0; w < n; w++)
             {
@@ -107,8 +116,7 @@ internal static class FrameEngine
             team.Run(reads, read);
             team.Run(n, compute);
             for (int w = 0; w < n; w++) op.Complete(states[w], pairs[batch + w]);
-            settings.Progress?.Report((batch + n, pairs.Count));
-        }
+        });
     }
 
     static void SeparatePairs<TWorker>(FrameSource earlierSource, FrameSource laterSource, IReadOnlyList<FramePair> pairs, IPairOperator<TWorker> op,
@@ -124,14 +132,12 @@ internal static class FrameEngine
             laterSource.ReadFrame(pair.Later, b[w]);
             op.Process(states[w], pair, pair.Earlier < 0 ? fixedEarlier : a[w], b[w]);
         };
-        for (batch = 0; batch < pairs.Count; batch += workers)
+        InBatches(pairs.Count, workers, settings, (first, n) =>
         {
-            settings.Cancel.ThrowIfCancellationRequested();
-            int n = Math.Min(workers, pairs.Count - batch);
+            batch = first;
             team.Run(n, work);
             for (int w = 0; w < n; w++) op.Complete(states[w], pairs[batch + w]);
-            settings.Progress?.Report((batch + n, pairs.Count));
-        }
+        });
     }
 
     /// <summary>Frames held at once by a batch run: enough that a slot recurs a few times within a batch, never more than 256 MiB of frames.</summary>
@@ -163,10 +169,9 @@ internal static class FrameEngine
             ? p => op.Process(p, addresses.AsSpan(0, n), new DecodedFloats())
             : p => op.Process(p, addresses.AsSpan(0, n), mapped.Decoder);
         using var team = new WorkerTeam(workers);
-        for (int first = 0; first < frames.Count; first += batchSize)
+        InBatches(frames.Count, batchSize, settings, (first, count) =>
         {
-            settings.Cancel.ThrowIfCancellationRequested();
-            n = Math.Min(batchSize, frames.Count - first);
+            n = count;
             for (int k = 0; k < n; k++) batchFrames[k] = frames[first + k];
             op.Arrange(batchFrames.AsSpan(0, n), order.AsSpan(0, n));
             if (mapped is not null)
@@ -180,7 +185,6 @@ internal static class FrameEngine
                 for (int k = 0; k < n; k++) addresses[k] = start0 + 4 * (nint)order[k] * cells;
             }
             team.Run(pieces, process, yieldTo is null || yieldTo.IsCompleted || workers == 1 ? workers : workers - 1);
-            settings.Progress?.Report((first + n, frames.Count));
-        }
+        });
     }
 }

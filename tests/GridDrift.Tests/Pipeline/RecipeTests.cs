@@ -12,6 +12,15 @@ public class RecipeTests
         return CliRun.Run("run", path);
     }
 
+    /// <summary>Runs a recipe over a 30-day record that must be refused: exit 2 and one line on stderr, which is returned.</summary>
+    static string Refused(TempFolder dir, string text)
+    {
+        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
+        var outcome = RunRecipe(dir, text);
+        Assert.Equal(2, outcome.ExitCode);
+        return Assert.Single(outcome.StderrLines);
+    }
+
     [Fact]
     public void An_unknown_key_is_named_with_its_line()
     {
@@ -51,10 +60,7 @@ public class RecipeTests
     public void A_misspelt_metric_is_refused_before_any_step_runs()
     {
         using var dir = new TempFolder();
-        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
-        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\nstat = [\"mean\"]\n\n[similarity]\nmetric = [\"ssmi\"]\nrange = \"0:80\"\n");
-        Assert.Equal(2, outcome.ExitCode);
-        var line = Assert.Single(outcome.StderrLines);
+        string line = Refused(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\nstat = [\"mean\"]\n\n[similarity]\nmetric = [\"ssmi\"]\nrange = \"0:80\"\n");
         Assert.Contains("similarity.metric", line);
         Assert.Contains("line 10", line);
         Assert.Contains("ssmi", line);
@@ -65,10 +71,7 @@ public class RecipeTests
     public void A_bad_min_segment_is_refused_before_any_step_runs()
     {
         using var dir = new TempFolder();
-        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
-        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\nstat = [\"mean\"]\n\n[events]\nseries = \"stats.nc\"\nmin-segment = 1\n");
-        Assert.Equal(2, outcome.ExitCode);
-        var line = Assert.Single(outcome.StderrLines);
+        string line = Refused(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\nstat = [\"mean\"]\n\n[events]\nseries = \"stats.nc\"\nmin-segment = 1\n");
         Assert.Contains("events.min-segment", line);
         Assert.Contains("line 11", line);
         Assert.False(File.Exists(dir.File("p/stats.nc")));
@@ -78,20 +81,14 @@ public class RecipeTests
     public void A_key_of_an_earlier_recipe_is_refused_with_its_new_name()
     {
         using var dir = new TempFolder();
-        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
-        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\n\n[stats]\nstatistics = [\"mean\"]\n");
-        Assert.Equal(2, outcome.ExitCode);
-        Assert.Contains("now 'stat'", Assert.Single(outcome.StderrLines));
+        Assert.Contains("now 'stat'", Refused(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\n\n[stats]\nstatistics = [\"mean\"]\n"));
     }
 
     [Fact]
     public void A_variable_missing_from_the_files_is_refused_before_any_step_runs()
     {
         using var dir = new TempFolder();
-        SampleFiles.Record(dir.File("in.nc"), frames: 30, stepHours: 24);
-        var outcome = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcvw\"\n\n[stats]\nstat = [\"mean\"]\n");
-        Assert.Equal(2, outcome.ExitCode);
-        var line = Assert.Single(outcome.StderrLines);
+        string line = Refused(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcvw\"\n\n[stats]\nstat = [\"mean\"]\n");
         Assert.Contains("input.variable", line);
         Assert.Contains("line 3", line);
     }
