@@ -125,23 +125,82 @@ public sealed class GridRecord : IDisposable
         EngineSettings? settings = null)
     {
         if (lag < 1) throw new ArgumentOutOfRangeException(nameof(lag), "the lag must be at least 1");
-        ValidFraction.Check(minValid);
-        var chosen = (metrics ?? [SimilarityMetric.Ssim, SimilarityMetric.Corr, SimilarityMetric.Rmsd, SimilarityMetric.MeanAbsChange]).Distinct().ToArray();
-        var dynamicRange = DataRange.Resolve(range, _source.Template.RequireVariable(Variable), Files[0], Units);
-        var pairs = FramePairs.AtLag(_source, lag, acrossGaps: false, out _);
-        var layout = new SeriesLayout(Variable, regions.Names, regions.Areas, chosen.Select(m => m.Quantity(Variable, Units)).ToList(), _source.TimeUnits, CalendarAttribute,
-            Provenance.Pending("GridDrift.GridRecord.Similarity", Files),
+        var chosen = MetricsOf(metrics);
+        var dynamicRange = DynamicRange(range);
+        var series = new RegionalSeries(PairLayout(regions, chosen, dynamicRange, minValid, Provenance.Pending("GridDrift.GridRecord.Similarity", Files),
+            $"Frame-to-frame similarity of {Variable} per region (lag {lag})", lag, [], withBounds: true));
+        Pairs(regions, chosen, dynamicRange, minValid, FramePairs.AtLag(_source, lag, acrossGaps: false, out _), series, settings ?? EngineSettings.Default);
+        return series;
+    }
+
+    /// <summary>
+    /// This record (a candidate, e.g. model output on the observation grid) against
+    /// <paramref name="reference"/> (e.g. observations) at every time both hold, per region:
+    /// bias (candidate − reference), RMS difference, correlation and the structural metrics.
+    /// </summary>
+    public RegionalSeries Comparison(GridRecord reference, RegionSet regions, IReadOnlyList<SimilarityMetric>? metrics = null, string? range = null, double minValid = 0.5,
+        EngineSettings? settings = null)
+    {
+        var chosen = (metrics ?? [SimilarityMetric.Bias, SimilarityMetric.Rmsd, SimilarityMetric.Corr, SimilarityMetric.Ssim]).Distinct().ToArray();
+        var dynamicRange = DynamicRange(range);
+        var pairs = SharedTimes(reference);
+        var series = new RegionalSeries(PairLayout(regions, chosen, dynamicRange, minValid, Provenance.Pending("GridDrift.GridRecord.Comparison", [.. reference.Files, .. Files]),
+            $"Comparison of {Variable}: candidate {Path.GetFileName(Files[0])} against reference {Path.GetFileName(reference.Files[0])}", 0, [], withBounds: false));
+        Pairs(regions, chosen, dynamicRange, minValid, pairs, series, settings ?? EngineSettings.Default, reference);
+        return series;
+    }
+
+    internal static SimilarityMetric[] MetricsOf(IReadOnlyList<SimilarityMetric>? metrics) =>
+        (metrics ?? [SimilarityMetric.Ssim, SimilarityMetric.Corr, SimilarityMetric.Rmsd, SimilarityMetric.MeanAbsChange]).Distinct().ToArray();
+
+    /// <summary>SSIM's and VIF's fixed dynamic range L, in the units frames are delivered in.</summary>
+    internal DataRange DynamicRange(string? range) => DataRange.Resolve(range, _source.Template.RequireVariable(Variable), Files[0], Units);
+
+    /// <summary>The reference's frame with this record's at every time both hold; refuses records of another grid or calendar.</summary>
+    internal List<FramePair> SharedTimes(GridRecord reference)
+    {
+        if (reference._source.FrameLength != _source.FrameLength)
+            throw new BadInputException(reference.Files[0], reference.Variable,
+                $"frames have {reference._source.FrameLength} values, the candidate's {_source.FrameLength}: regrid the candidate onto the reference grid first");
+        if (reference._source.Calendar != _source.Calendar)
+            throw new BadInputException(reference.Files[0], reference._source.Axes.Time!.Name,
+                $"is in the {reference._source.Calendar.CfName()} calendar and the candidate in {_source.Calendar.CfName()}: align them first (regrid --calendar)");
+        var pairs = FramePairs.AtSharedTimes(reference._source, _source);
+        if (pairs.Count == 0) throw new BadInputException(Files[0], Variable, "no time step is shared with the reference");
+        return pairs;
+    }
+
+    internal SeriesLayout PairLayout(RegionSet regions, IReadOnlyList<SimilarityMetric> metrics, DataRange range, double minValid, Provenance provenance, string title, int lag,
+        IReadOnlyList<(CfTime Earlier, CfTime Later)> skipped, bool withBounds) =>
+        new(Variable, regions.Names, regions.Areas, metrics.Select(m => m.Quantity(Variable, Units)).ToList(), _source.TimeUnits, CalendarAttribute, provenance,
             new Dictionary<string, string>
             {
-                ["title"] = $"Frame-to-frame similarity of {Variable} per region (lag {lag})",
-                ["dynamic_range"] = $"{dynamicRange.Low.ToString("R", CultureInfo.InvariantCulture)}:{dynamicRange.High.ToString("R", CultureInfo.InvariantCulture)} ({dynamicRange.Source})",
+                ["title"] = title,
+                ["dynamic_range"] = $"{range.Low.ToString("R", CultureInfo.InvariantCulture)}:{range.High.ToString("R", CultureInfo.InvariantCulture)} ({range.Source})",
                 ["lag"] = lag.ToString(CultureInfo.InvariantCulture),
+                ["earth_radius_m"] = Grid.EarthRadius.ToString("R", CultureInfo.InvariantCulture),
+                ["min_valid"] = minValid.ToString("R", CultureInfo.InvariantCulture),
+                ["ssim_window"] = "Gaussian sigma 1.5, 11 taps; longitude " + (Ssim.PeriodicFor(Grid) ? "periodic" : "reflected") + ", latitude reflected; normalised convolution over missing cells",
+                ["vif_domain"] = "pixel-domain multi-scale VIF on each region's bounding index box, values rescaled to 0-255 over the data range",
+                ["skipped_pairs"] = skipped.Count == 0 ? "none" : string.Join("; ", skipped.Select(s => $"{s.Earlier.ToIsoString()}/{s.Later.ToIsoString()}")),
             },
-            HasTimeBounds: true);
-        var series = new RegionalSeries(layout);
-        var op = new SimilarityOperator(regions, dynamicRange, Ssim.PeriodicFor(Grid), chosen, minValid, Times, Times, series);
-        FrameEngine.RunPairs(_source, _source, pairs, op, settings ?? EngineSettings.Default);
-        return series;
+            HasTimeBounds: withBounds);
+
+    /// <summary>
+    /// The pair metrics of <paramref name="pairs"/> into any series sink: earlier frames from
+    /// <paramref name="reference"/> (a comparison), from <paramref name="fixedField"/> (index −1),
+    /// or from this record. Gives the number of later-frame cells outside the dynamic range.
+    /// </summary>
+    internal long Pairs(RegionSet regions, IReadOnlyList<SimilarityMetric> metrics, DataRange range, double minValid, IReadOnlyList<FramePair> pairs, ISeriesSink sink,
+        EngineSettings settings, GridRecord? reference = null, float[]? fixedField = null)
+    {
+        ValidFraction.Check(minValid);
+        if (metrics.Count == 0) throw new BadInputException(null, null, "no metric asked for (--metric ssim,vif,corr,rmsd,mean-abs-change)");
+        if (Grid.ColumnsFirst)
+            throw new BadInputException(Files[0], Variable, "longitude comes before latitude in this variable's dimensions; similarity needs (time, lat, lon) order");
+        var op = new SimilarityOperator(regions, range, Ssim.PeriodicFor(Grid), metrics, minValid, Times, reference is null ? Times : null, sink);
+        FrameEngine.RunPairs(reference?._source ?? _source, _source, pairs, op, settings, fixedField);
+        return op.CellsOutsideRange;
     }
 
     /// <summary>

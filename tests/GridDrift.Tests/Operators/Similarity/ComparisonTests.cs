@@ -32,6 +32,22 @@ public class ComparisonTests
         Assert.False(r.Variables.Any(v => v.Name == "time_bnds"), "a comparison has no pair bounds");
     }
 
+    [Fact]
+    public void The_library_comparison_gives_the_same_offset_in_memory()
+    {
+        using var dir = new TempFolder();
+        string obs = SampleFiles.Record(dir.File("obs.nc"), frames: 8, stepHours: 24, nlat: 6, nlon: 12);
+        string candidate = SampleFiles.Record(dir.File("cand.nc"), hours: Enumerable.Range(2, 6).Select(i => 24.0 * i), nlat: 6, nlon: 12);
+        AddOffset(candidate, 2f);
+        using var reference = GridDrift.GridRecord.Open([obs], "tcwv");
+        using var model = GridDrift.GridRecord.Open([candidate], "tcwv");
+        var series = model.Comparison(reference, model.Regions("global"), range: "0:300");
+        Assert.Equal(6, series.Times.Count);
+        Assert.All(series.Of("global", "bias"), v => Assert.True(Math.Abs(v - 2) < 1e-5, $"bias {v}"));
+        Assert.All(series.Of("global", "rmsd"), v => Assert.True(Math.Abs(v - 2) < 1e-5, $"rmsd {v}"));
+        Assert.All(series.Of("global", "corr"), v => Assert.True(Math.Abs(v - 1) < 1e-9, $"corr {v}"));
+    }
+
     /// <summary>Rewrites a sample record with every tcwv value raised by <paramref name="offset"/>.</summary>
     static void AddOffset(string path, float offset)
     {
