@@ -87,6 +87,21 @@ internal sealed class ValueCodec
         return new ValueCodec(variable.Type, scale, offset, fill, missing.Distinct().ToArray(), lo, hi, rangeOnPacked, warnings);
     }
 
+    /// <summary>
+    /// The valid range (valid_range, or valid_min and valid_max) in physical units, when the
+    /// variable gives both ends; CF §8.1's rule decides whether it was stated packed.
+    /// </summary>
+    public (double Low, double High)? ValidRange
+    {
+        get
+        {
+            if (double.IsInfinity(_validMin) || double.IsInfinity(_validMax)) return null;
+            if (!_rangeOnPacked) return (_validMin, _validMax);
+            double a = _validMin * Scale + Offset, b = _validMax * Scale + Offset;
+            return (Math.Min(a, b), Math.Max(a, b));
+        }
+    }
+
     /// <summary>Raw values (already widened to double) to physical float32, NaN where missing.</summary>
     public void Decode(ReadOnlySpan<double> raw, Span<float> physical)
     {

@@ -52,14 +52,10 @@ internal sealed record DataRange(double Low, double High, string Source)
         if (option is not null)
             try { return ParseOption(option); }
             catch (FormatException e) { throw new BadInputException(null, null, $"--range {option}: {e.Message}"); }
+        // the valid range as CF decoding reads it (packed bounds unpacked), the one place it is parsed
+        if (GridDrift.Conventions.Values.ValueCodec.For(variable).ValidRange is { } valid && valid.High > valid.Low)
+            return new DataRange(valid.Low, valid.High, "valid_min/valid_max");
         var a = variable.Attributes;
-        double scale = a.Find("scale_factor")?.FirstNumber() ?? 1, offset = a.Find("add_offset")?.FirstNumber() ?? 0;
-        bool packedBounds(NcAttribute attr) => attr.Type == variable.Type && (scale != 1 || offset != 0);
-        double? min = null, max = null;
-        if (a.Find("valid_range") is { Count: >= 2 } vr) { var v = vr.AsDoubles(); (min, max) = packedBounds(vr) ? (v[0] * scale + offset, v[1] * scale + offset) : (v[0], v[1]); }
-        if (a.Find("valid_min") is { } vmin && vmin.FirstNumber() is { } x) min = packedBounds(vmin) ? x * scale + offset : x;
-        if (a.Find("valid_max") is { } vmax && vmax.FirstNumber() is { } y) max = packedBounds(vmax) ? y * scale + offset : y;
-        if (min is { } l && max is { } h && h > l) return new DataRange(l, h, "valid_min/valid_max");
         if (a.Text("standard_name") is { } name && Defaults.TryGetValue(name, out var d)) return new DataRange(d.Low, d.High, $"default for {name}");
         throw new BadInputException(path, variable.Name,
             "no fixed data range: give --range LO:HI (SSIM needs one range for all frames; the variable has no valid_min/valid_max and no standard_name with a default)");
