@@ -63,10 +63,11 @@ internal sealed class WorkerTeam : IDisposable
         }
     }
 
+    /// <summary>Runs indices until none are left; the first fault of any worker ends the job: no worker starts another index.</summary>
     void Drain()
     {
         int i;
-        while ((i = Interlocked.Increment(ref _next) - 1) < _count)
+        while (Volatile.Read(ref _fault) is null && (i = Interlocked.Increment(ref _next) - 1) < _count)
             try { _body(i); }
             catch (Exception e) { Interlocked.CompareExchange(ref _fault, e, null); }
     }

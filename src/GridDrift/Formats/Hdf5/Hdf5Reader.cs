@@ -233,6 +233,8 @@ internal sealed class Hdf5Reader : IDatasetReader
         {
             lock (_gate)
             {
+                // a read that failed inside the HDF5 library may leave its state broken: every later read of this file is refused instead of entered
+                if (_fault is { } earlier) throw new BadInputException(Path, variable.Name, $"data cannot be read ({earlier})");
                 if (shape.Length == 0)
                 {
                     ReadTyped(ds, variable.Type, destination, new AllSelection(), [1]);
@@ -246,11 +248,14 @@ internal sealed class Hdf5Reader : IDatasetReader
             }
             if (_bigEndian.Contains(variable)) RawValues.SwapInPlace(destination, size);
         }
-        catch (Exception e) when (e is not (OutOfMemoryException or BadInputException or ArgumentException))
+        catch (Exception e) when (e is not (BadInputException or ArgumentException))
         {
+            lock (_gate) _fault ??= e.Message;
             throw new BadInputException(Path, variable.Name, $"data cannot be read ({e.Message})", e);
         }
     }
+
+    string? _fault;
 
     static void ReadTyped(NativeDataset ds, NcType type, Span<byte> destination, Selection selection, ulong[] memoryDims)
     {
