@@ -19,8 +19,9 @@ internal static class UsageErrors
         var unknown = new List<string>();
         foreach (var token in parse.UnmatchedTokens) unknown.Add(Unknown(token, known, command));
         // an argument that takes any number of files also takes a misspelled option: one that names no file is refused
-        foreach (var token in parse.Tokens)
-            if (token.Type == TokenType.Argument && token.Value.StartsWith("--", StringComparison.Ordinal) && token.Value.Length > 2
+        // (only the command's own arguments: an option's value may begin with dashes, e.g. --sbatch-option=--qos=short)
+        foreach (var token in parse.CommandResult.Children.OfType<ArgumentResult>().SelectMany(a => a.Tokens))
+            if (token.Value.StartsWith("--", StringComparison.Ordinal) && token.Value.Length > 2
                 && !File.Exists(token.Value) && !Directory.Exists(token.Value) && !parse.UnmatchedTokens.Contains(token.Value))
                 unknown.Add(Unknown(token.Value, known, command));
         if (unknown.Count > 0) return unknown.Distinct().ToList();

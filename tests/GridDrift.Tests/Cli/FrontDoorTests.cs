@@ -69,6 +69,17 @@ public class FrontDoorTests
     }
 
     [Fact]
+    public void An_option_value_that_begins_with_dashes_is_not_taken_for_an_option()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 10, stepHours: 24);
+        File.WriteAllText(dir.File("r.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\n\n[stats]\n");
+        var outcome = CliRun.Run("submit", dir.File("r.toml"), "--shards", "2", "--scheduler", "slurm", "--dry-run", "--sbatch-option=--qos=short");
+        Assert.True(outcome.ExitCode == 0, outcome.Stderr);
+        Assert.Contains("#SBATCH --qos=short", File.ReadAllText(Directory.EnumerateFiles(dir.Path, "1-record.sbatch", SearchOption.AllDirectories).Single()));
+    }
+
+    [Fact]
     public void An_unknown_command_is_named_with_the_nearest_one()
     {
         AssertUsage(CliRun.Run("statz"), "did you mean stats?");

@@ -36,6 +36,37 @@ public class SlurmTests
         Assert.False(File.Exists(Path.Combine(jobs, "jobs.json")));
     }
 
+    [Theory]
+    [InlineData("out", "products\ntouch INJECTED")]
+    [InlineData("--partition", "short\ntouch INJECTED")]
+    [InlineData("--sbatch-option", "--qos=short\ntouch INJECTED")]
+    public void A_line_break_never_reaches_a_batch_script(string where, string value)
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 20, stepHours: 24);
+        string outFolder = where == "out" ? value.Replace("\n", "\\n") : "products";
+        File.WriteAllText(dir.File("r.toml"), $"[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"{outFolder}\"\n\n[stats]\n");
+        string[] extra = where == "out" ? [] : [$"{where}={value}"]; // the documented form, --sbatch-option=--qos=short
+        var outcome = CliRun.Run(["submit", dir.File("r.toml"), "--shards", "2", "--scheduler", "slurm", "--dry-run", .. extra]);
+        Assert.Equal(2, outcome.ExitCode);
+        Assert.Contains("control character", Assert.Single(outcome.StderrLines));
+        Assert.DoesNotContain(Directory.EnumerateFiles(dir.Path, "*.sbatch", SearchOption.AllDirectories), f => File.ReadAllText(f).Contains("INJECTED"));
+    }
+
+    [Fact]
+    public void A_path_with_spaces_and_quotes_stays_one_word_in_the_scripts()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 20, stepHours: 24);
+        File.WriteAllText(dir.File("r.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"my products; it's\"\n\n[stats]\n");
+        var outcome = CliRun.Run("submit", dir.File("r.toml"), "--shards", "2", "--scheduler", "slurm", "--dry-run");
+        Assert.True(outcome.ExitCode == 0, outcome.Stderr);
+        string script = Directory.EnumerateFiles(dir.Path, "1-record.sbatch", SearchOption.AllDirectories).Single();
+        // bash's own parser (bash -n: read, do not run) accepts the script, and the #SBATCH output path is one double-quoted word
+        Assert.Equal(0, ExternalTools.Run("bash", $"-n \"{script}\"").ExitCode);
+        Assert.Contains("#SBATCH --output=\"", File.ReadAllText(script));
+    }
+
     [InteropFact(Needs.Slurm | Needs.PythonNetcdf)]
     public void Four_shards_on_slurm_equal_a_one_machine_run_and_a_killed_task_is_reported()
     {

@@ -30,6 +30,11 @@ internal static class SlurmSubmission
         var recipe = Recipe.Load(o.Recipe);
         if (RecipeRunner.Inputs(recipe).Count == 0) throw new BadInputException(recipe.Path, "input.files", "matches no file");
         string mainDir = RecipeRunner.OutFolder(recipe);
+        // everything that reaches a batch script: a control character there could end a line and start a command
+        ScriptText.Check(recipe.Path, "the recipe's path");
+        ScriptText.Check(mainDir, "the recipe's [input] out");
+        ScriptText.Check(o.Griddrift, "the griddrift command");
+        foreach (var d in o.Batch.Directives()) ScriptText.Check(d, "a scheduler option");
         string jobsDir = Path.Combine(mainDir, "shards", "slurm"), logs = Path.Combine(jobsDir, "logs");
         Directory.CreateDirectory(logs);
         var stages = BatchStage.For(recipe, o.Shards, o.Griddrift, mainDir);
@@ -62,9 +67,9 @@ internal static class SlurmSubmission
         sb.Append("#!/bin/bash\n");
         sb.Append($"#SBATCH --job-name=griddrift-{s.Name}\n");
         if (s.Array) sb.Append($"#SBATCH --array=1-{o.Shards}\n");
-        sb.Append($"#SBATCH --output={Path.Combine(logs, s.Array ? s.Name + "-%a.log" : s.Name + ".log")}\n");
+        sb.Append($"#SBATCH --output={ScriptText.Directive(Path.Combine(logs, s.Array ? s.Name + "-%a.log" : s.Name + ".log"))}\n");
         sb.Append("#SBATCH --ntasks=1\n");
-        foreach (var d in o.Batch.Directives()) sb.Append($"#SBATCH {d}\n");
+        foreach (var d in o.Batch.Directives()) sb.Append($"#SBATCH {ScriptText.Directive(d)}\n");
         sb.Append($"# GridDrift sharded run of {Path.GetFullPath(o.Recipe)}: stage {k} of {count}, {s.Name}: {s.Description}.\n");
         sb.Append("# Written by griddrift submit; GridDrift is an analysis tool, not a warning or forecasting service.\n");
         sb.Append("set -euo pipefail\n");
