@@ -121,7 +121,31 @@ internal static class RecipeRunner
         try { GridDrift.Regions.RegionSpecs.ParseInput(recipe.List("input", "regions", ["global"])); }
         catch (BadInputException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "regions"), "input.regions", e.Fault); }
         foreach (var step in Steps.Where(s => recipe.Has(s.Name))) step.Check(recipe);
+        CheckOutputsInside(recipe);
         return inputs;
+    }
+
+    /// <summary>The key of [input] that lets a recipe write products outside its products folder.</summary>
+    public const string WriteOutside = "write-outside";
+
+    /// <summary>
+    /// Every product a recipe writes (each step's out, table and plot) stays inside its products
+    /// folder, unless [input] says write-outside = true: a recipe from elsewhere must not overwrite
+    /// files it was not given.
+    /// </summary>
+    static void CheckOutputsInside(Recipe r)
+    {
+        if (r.Flag("input", WriteOutside, false)) return;
+        string folder = OutFolder(r);
+        foreach (var step in Order.Where(r.Has))
+            foreach (var key in new[] { "out", "table", "plot" })
+                if (r.OptionalText(step, key) is { } name)
+                {
+                    string full = Path.GetFullPath(Path.Combine(folder, name));
+                    if (!full.StartsWith(folder.TrimEnd(Path.DirectorySeparatorChar) + Path.DirectorySeparatorChar, StringComparison.Ordinal))
+                        throw BadInputException.InRecipe(r.Path, r.LineOf(step, key), $"{step}.{key}",
+                            $"'{name}' lies outside the products folder {folder}; name a path inside it, or allow this with [input] {WriteOutside} = true");
+                }
     }
 
     /// <summary>A path of the recipe: as it is when absolute, else relative to the recipe's folder.</summary>

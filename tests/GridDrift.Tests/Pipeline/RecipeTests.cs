@@ -107,4 +107,19 @@ public class RecipeTests
         using var b = GridDrift.Formats.DatasetFiles.Open(dir.File("cli.nc"));
         Assert.Equal(b.Variables.Select(v => v.Name), a.Variables.Select(v => v.Name));
     }
+
+    [Fact]
+    public void A_product_outside_the_products_folder_is_refused_unless_allowed()
+    {
+        using var dir = new TempFolder();
+        File.WriteAllText(dir.File("victim.txt"), "keep me");
+        string line = Refused(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\n\n[stats]\nout = \"../victim.txt\"\n");
+        Assert.Contains("stats.out", line);
+        Assert.Contains("line 7", line);
+        Assert.Equal("keep me", File.ReadAllText(dir.File("victim.txt")));
+
+        var allowed = RunRecipe(dir, "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"p\"\nwrite-outside = true\n\n[stats]\nout = \"../outside.nc\"\n");
+        Assert.True(allowed.ExitCode == 0, allowed.Stderr);
+        Assert.True(File.Exists(dir.File("outside.nc")));
+    }
 }
