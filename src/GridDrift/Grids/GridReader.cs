@@ -23,8 +23,11 @@ internal static class GridReader
             int lonDim = IndexOfDimension(data, lon.Dimensions[0]);
             if (latDim < 0 || lonDim < 0)
                 throw new BadInputException(reader.Path, data.Name, "latitude and longitude are not dimensions of the variable");
-            return RectilinearGrid.Build(reader.ReadAllDoubles(lat), reader.ReadAllDoubles(lon),
-                Bounds(reader, lat), Bounds(reader, lon), radius, columnsFirst: lonDim < latDim);
+            var latitudes = reader.ReadAllDoubles(lat);
+            var longitudes = reader.ReadAllDoubles(lon);
+            CheckAxis(reader.Path, lat.Name, latitudes, 90 + LatitudeTolerance, "latitudes");
+            CheckAxis(reader.Path, lon.Name, longitudes, MaxLongitude, "longitudes");
+            return RectilinearGrid.Build(latitudes, longitudes, Bounds(reader, lat), Bounds(reader, lon), radius, columnsFirst: lonDim < latDim);
         }
 
         if (axes.Latitude is { Rank: 2 } lat2 && axes.Longitude is { Rank: 2 } lon2)
@@ -33,10 +36,39 @@ internal static class GridReader
             double[]? cornerLat = null, cornerLon = null;
             if (Bounds(reader, lat2) is { } bl && Bounds(reader, lon2) is { } bo && bl.Length == 4 * rows * columns && bo.Length == bl.Length)
                 (cornerLat, cornerLon) = (bl, bo);
-            return CurvilinearGrid.Build(reader.ReadAllDoubles(lat2), reader.ReadAllDoubles(lon2), rows, columns, cornerLat, cornerLon, radius);
+            var latitudes = reader.ReadAllDoubles(lat2);
+            var longitudes = reader.ReadAllDoubles(lon2);
+            CheckRange(reader.Path, lat2.Name, latitudes, 90 + LatitudeTolerance, "latitudes");
+            CheckRange(reader.Path, lon2.Name, longitudes, MaxLongitude, "longitudes");
+            return CurvilinearGrid.Build(latitudes, longitudes, rows, columns, cornerLat, cornerLon, radius);
         }
         throw new BadInputException(reader.Path, data.Name,
             "no horizontal grid: neither latitude/longitude coordinates (CF §4.1, §4.2, §5.2) nor a geostationary grid_mapping");
+    }
+
+    /// <summary>Latitudes a hair beyond the poles (rounding in a file's float32 values) are taken; anything further is a broken coordinate.</summary>
+    const double LatitudeTolerance = 1e-3;
+
+    /// <summary>Longitudes beyond two turns either way are no convention of any grid: a broken coordinate.</summary>
+    const double MaxLongitude = 720;
+
+    /// <summary>A 1-D coordinate: finite, within ±<paramref name="limit"/> and strictly monotonic, else bad input naming the variable.</summary>
+    static void CheckAxis(string path, string name, double[] values, double limit, string what)
+    {
+        CheckRange(path, name, values, limit, what);
+        if (values.Length < 2) return;
+        int direction = Math.Sign(values[1] - values[0]);
+        for (int i = 1; i < values.Length; i++)
+            if (direction == 0 || Math.Sign(values[i] - values[i - 1]) != direction)
+                throw new BadInputException(path, name, $"{what} are not strictly increasing or decreasing (index {i - 1}: {values[i - 1]:R}, index {i}: {values[i]:R})");
+    }
+
+    /// <summary>Every value finite and within ±<paramref name="limit"/>, else bad input naming the variable.</summary>
+    static void CheckRange(string path, string name, double[] values, double limit, string what)
+    {
+        for (int i = 0; i < values.Length; i++)
+            if (!double.IsFinite(values[i]) || Math.Abs(values[i]) > limit)
+                throw new BadInputException(path, name, $"{what} must be finite and within ±{limit:0.###} degrees; index {i} is {values[i]:R}");
     }
 
     static int IndexOfDimension(NcVariable v, NcDimension d)
