@@ -46,17 +46,17 @@ public static class CliApp
         }
         catch (AggregateException e) when (e.InnerExceptions.Count == 1 && e.InnerException is BadInputException bad)
         {
-            error.WriteLine($"griddrift: {bad.Message}");
+            error.WriteLine($"griddrift: {Terminal.Safe(bad.Message)}");
             return ExitCodes.BadInput;
         }
         catch (BadInputException e)
         {
-            error.WriteLine($"griddrift: {e.Message}");
+            error.WriteLine($"griddrift: {Terminal.Safe(e.Message)}");
             return ExitCodes.BadInput;
         }
         catch (Exception e) when (e is not OperationCanceledException)
         {
-            error.WriteLine($"griddrift: internal fault ({e.GetType().Name}): {e.Message}. Please report it with the command that caused it.");
+            error.WriteLine($"griddrift: internal fault ({e.GetType().Name}): {Terminal.Safe(e.Message)}. Please report it with the command that caused it.");
             if (Environment.GetEnvironmentVariable("GRIDDRIFT_TRACE") == "1") error.WriteLine(e);
             return ExitCodes.InternalFault;
         }
