@@ -10,13 +10,25 @@ internal static class CommonOptions
 
     public static Option<string> Variable() => new("--var") { Description = "the variable to analyse", Required = true };
 
-    public static Option<string[]> Regions() => new("--regions")
+    public static Option<string[]> Regions()
     {
-        Description = "regions: global, bands:STEP, tiles:DLATxDLON, box:NAME=SOUTH,NORTH,WEST,EAST (WEST > EAST crosses the date line), file:PATH.geojson",
-        Required = true,
-        Arity = ArgumentArity.OneOrMore,
-        AllowMultipleArgumentsPerToken = true,
-    };
+        var option = new Option<string[]>("--regions")
+        {
+            Description = "regions: global, bands:STEP, tiles:DLATxDLON, box:NAME=SOUTH,NORTH,WEST,EAST (WEST > EAST crosses the date line), file:PATH.geojson; " +
+                $"at most {GridDrift.Regions.RegionSpecs.MaxRegions} regions, and {GridDrift.Regions.GeoJsonRegions.MaxPositions} positions in a region file",
+            Required = true,
+            Arity = ArgumentArity.OneOrMore,
+            AllowMultipleArgumentsPerToken = true,
+        };
+        // the specifications themselves are checked while parsing (exit 1); a region file's content is input (exit 2)
+        option.Validators.Add(r =>
+        {
+            var specs = (r.GetValueOrDefault<string[]>() ?? []).SelectMany(s => s.Split(' ', StringSplitOptions.RemoveEmptyEntries)).Where(s => !s.StartsWith("file:", StringComparison.Ordinal));
+            try { GridDrift.Regions.RegionSpecs.Parse(specs); }
+            catch (FormatException e) { r.AddError("--regions: " + e.Message); }
+        });
+        return option;
+    }
 
     public static Option<double> EarthRadius() => new Option<double>("--earth-radius")
     {

@@ -23,8 +23,20 @@ internal static class GeoJsonRegions
             throw new BadInputException(path, null, $"not valid JSON ({e.Message})");
         }
         using (doc)
+            try { return Regions(doc.RootElement, path); }
+            // a document of another shape (features not a list, a null geometry, a position that is not a pair of numbers) is bad input, not a fault
+            catch (Exception e) when (e is KeyNotFoundException or InvalidOperationException or FormatException or IndexOutOfRangeException)
+            {
+                throw new BadInputException(path, null, $"not a GeoJSON region file of Polygon or MultiPolygon features ({e.Message})");
+            }
+    }
+
+    /// <summary>At most this many positions in one region file: enough for detailed coastlines, and a bound on the time building masks takes.</summary>
+    public const int MaxPositions = 200_000;
+
+    static IReadOnlyList<RegionShape> Regions(JsonElement root, string path)
+    {
         {
-            var root = doc.RootElement;
             var features = Type(root) switch
             {
                 "FeatureCollection" => root.GetProperty("features").EnumerateArray().ToList(),
@@ -33,6 +45,7 @@ internal static class GeoJsonRegions
             };
             var regions = new List<RegionShape>();
             int index = 0;
+            long positions = 0;
             foreach (var f in features)
             {
                 index++;
@@ -46,9 +59,29 @@ internal static class GeoJsonRegions
                     "MultiPolygon" => g.GetProperty("coordinates").EnumerateArray().Select(c => Polygon(c, path, name)).ToList(),
                     _ => throw new BadInputException(path, null, $"feature '{name}': only Polygon and MultiPolygon geometries make regions"),
                 };
+                CheckPositions(path, name, polygons, ref positions);
                 regions.Add(new PolygonRegion(name, polygons));
             }
             return regions;
+        }
+    }
+
+    /// <summary>Positions are finite longitudes within ±720 and latitudes within ±90, every polygon encloses some area, and the file stays within <see cref="MaxPositions"/>.</summary>
+    static void CheckPositions(string path, string name, IReadOnlyList<IReadOnlyList<(double Lon, double Lat)[]>> polygons, ref long positions)
+    {
+        foreach (var polygon in polygons)
+        {
+            foreach (var ring in polygon)
+            {
+                positions += ring.Length;
+                if (positions > MaxPositions) throw new BadInputException(path, null, $"more than {MaxPositions} positions: simplify the polygons first");
+                foreach (var (lon, lat) in ring)
+                    if (!double.IsFinite(lon) || !double.IsFinite(lat) || Math.Abs(lat) > 90 || Math.Abs(lon) > 720)
+                        throw new BadInputException(path, null, $"region '{name}': position ({lon}, {lat}) is not a longitude and latitude in degrees");
+            }
+            var outer = polygon[0];
+            if (GridDrift.Grids.Sphere.PolygonArea(outer.Select(p => p.Lat).ToArray(), outer.Select(p => p.Lon).ToArray(), 1) <= 0)
+                throw new BadInputException(path, null, $"region '{name}': a polygon encloses no area");
         }
     }
 

@@ -23,12 +23,18 @@ internal static class RegionSpecs
         }
     }
 
+    /// <summary>At most this many regions in one analysis (e.g. tiles:1x1 gives 64,800): a bound on masks and products.</summary>
+    public const int MaxRegions = 100_000;
+
     public static IReadOnlyList<RegionShape> Parse(IEnumerable<string> specs)
     {
         var shapes = new List<RegionShape>();
         foreach (var spec in specs)
             foreach (var part in spec.Split(' ', StringSplitOptions.RemoveEmptyEntries))
+            {
                 shapes.AddRange(ParseOne(part));
+                if (shapes.Count > MaxRegions) throw new FormatException($"more than {MaxRegions} regions (at '{part}'): choose larger bands or tiles");
+            }
         var duplicate = shapes.GroupBy(s => s.Name).FirstOrDefault(g => g.Count() > 1);
         if (duplicate is not null) throw new FormatException($"region '{duplicate.Key}' is defined twice");
         return shapes;
@@ -60,6 +66,7 @@ internal static class RegionSpecs
     static IEnumerable<RegionShape> Bands(double step)
     {
         if (step <= 0 || step > 180) throw new FormatException($"band step {step} must be in (0, 180]");
+        if (Math.Ceiling(180 / step) > MaxRegions) throw new FormatException($"band step {step} gives more than {MaxRegions} regions");
         for (double s = -90; s < 90 - 1e-9; s += step)
         {
             double n = Math.Min(90, s + step);
@@ -73,6 +80,7 @@ internal static class RegionSpecs
         if (parts.Length != 2) throw new FormatException($"tiles need DLATxDLON, got '{spec}'");
         double dlat = Number(parts[0], spec), dlon = Number(parts[1], spec);
         if (dlat <= 0 || dlat > 180 || dlon <= 0 || dlon > 360) throw new FormatException($"tile size {body} out of range");
+        if (Math.Ceiling(180 / dlat) * Math.Ceiling(360 / dlon) > MaxRegions) throw new FormatException($"tiles {body} give more than {MaxRegions} regions");
         var tiles = new List<RegionShape>();
         for (double s = -90; s < 90 - 1e-9; s += dlat)
         {
@@ -95,6 +103,7 @@ internal static class RegionSpecs
         if (v.Length != 4) throw new FormatException($"a box needs SOUTH,NORTH,WEST,EAST (got '{spec}')");
         double s = Number(v[0], spec), n = Number(v[1], spec), w = Number(v[2], spec), e = Number(v[3], spec);
         if (s < -90 || n > 90 || s >= n) throw new FormatException($"box '{name}': latitudes must satisfy -90 <= SOUTH < NORTH <= 90");
+        if (Math.Abs(w) > 720 || Math.Abs(e) > 720) throw new FormatException($"box '{name}': longitudes must lie within ±720 degrees");
         return new LatLonBox(name, s, n, w, e);
     }
 
