@@ -48,6 +48,8 @@ internal sealed class ClimatologyFile
         };
         if (time.Dimensions.Count != 1 || time.Dimensions[0].Length != scheme.SlotCount)
             throw new BadInputException(path, "time", $"has {time.ElementCount} steps; a {kind.Name()} climatology in the {calendar.CfName()} calendar has {scheme.SlotCount}");
+        // the climatology names its fields as the input variable, made safe for NetCDF (NcNames)
+        if (reader.FindVariable(variable) is null && reader.FindVariable(NcNames.Safe(variable)) is not null) variable = NcNames.Safe(variable);
         var mean = Field(reader, reader.RequireVariable(variable), scheme.SlotCount, path);
         var std = Field(reader, reader.RequireVariable(variable + "_std"), scheme.SlotCount, path);
         return new ClimatologyFile

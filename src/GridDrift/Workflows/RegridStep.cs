@@ -85,9 +85,9 @@ internal static class RegridStep
         var attributes = template.DataAttributes.ToList();
         string methods = (o.Method == "conservative" ? "area: mean" : "") + (resampling == Resampling.None ? "" : " time: mean");
         if (methods.Trim().Length > 0) attributes.Add(NcAttribute.Text("cell_methods", methods.Trim()));
-        attributes.Add(NcAttribute.Text("ancillary_variables", o.Variable + "_covered_fraction"));
+        attributes.Add(NcAttribute.Text("ancillary_variables", NcNames.Safe(o.Variable) + "_covered_fraction"));
         var values = w.DefineField(o.Variable, attributes);
-        var fraction = w.Writer.AddVariable(o.Variable + "_covered_fraction", NcType.Float, w.FieldDimensions(),
+        var fraction = w.Writer.AddVariable(NcNames.Safe(o.Variable) + "_covered_fraction", NcType.Float, w.FieldDimensions(),
             [NcAttribute.Text("long_name", o.Method == "conservative" ? "fraction of the target cell's area covered by valid source cells" : "valid share of the interpolation weight"), NcAttribute.Text("units", "1")]);
         w.EndDefinitions();
         var records = new RemappedRecords(w, time, bounds, values, fraction, units, target.CellCount);

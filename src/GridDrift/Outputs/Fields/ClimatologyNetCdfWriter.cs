@@ -38,19 +38,19 @@ internal static class ClimatologyNetCdfWriter
         string? standardName = template.DataAttribute("standard_name");
         string units0 = template.DataAttribute("units") ?? "1";
         var common = template.DataAttributes.Where(a => a.Name is "coordinates" or "grid_mapping").ToList();
-        var meanVar = w.Writer.AddVariable(variable, NcType.Float, dims, template.DataAttributes.Where(a => a.Name != "long_name")
+        var meanVar = w.Writer.AddVariable(NcNames.Safe(variable), NcType.Float, dims, template.DataAttributes.Where(a => a.Name != "long_name")
             .Append(NcAttribute.Text("long_name", $"climatological mean of {template.DataAttribute("long_name") ?? variable}"))
             .Append(NcAttribute.Text("cell_methods", Methods("mean", "mean")))
             .Append(NcAttribute.Text("ancillary_variables", $"{variable}_std {variable}_count"))
             .Append(NcAttribute.Of("_FillValue", Fill)));
-        var stdVar = w.Writer.AddVariable(variable + "_std", NcType.Float, dims, common
+        var stdVar = w.Writer.AddVariable(NcNames.Safe(variable) + "_std", NcType.Float, dims, common
             .Concat(standardName is null ? [] : new[] { NcAttribute.Text("standard_name", standardName) })
             .Append(NcAttribute.Text("long_name", $"climatological standard deviation of {variable}"))
             .Append(NcAttribute.Text("units", units0))
             .Append(NcAttribute.Text("cell_methods", Methods("standard_deviation", "standard_deviation") +
                 " (comment: population standard deviation of all samples of the slot, pooled over the base period)"))
             .Append(NcAttribute.Of("_FillValue", Fill)));
-        var countVar = w.Writer.AddVariable(variable + "_count", NcType.Float, dims, common
+        var countVar = w.Writer.AddVariable(NcNames.Safe(variable) + "_count", NcType.Float, dims, common
             .Concat(standardName is null ? [] : new[] { NcAttribute.Text("standard_name", standardName + " number_of_observations") })
             .Append(NcAttribute.Text("long_name", $"number of valid samples of {variable} in the slot"))
             .Append(NcAttribute.Text("units", "1"))

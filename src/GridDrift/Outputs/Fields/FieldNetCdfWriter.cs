@@ -57,7 +57,7 @@ internal sealed class FieldNetCdfWriter : IDisposable
 
     /// <summary>A float32 field over (time, frame dimensions) with the given attributes and the products' _FillValue.</summary>
     public ClassicWriter.Definition DefineField(string name, IEnumerable<NcAttribute> attributes) =>
-        Writer.AddVariable(name, NcType.Float, FieldDimensions(), attributes.Where(a => a.Name != "_FillValue").Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
+        Writer.AddVariable(NcNames.Safe(name), NcType.Float, FieldDimensions(), attributes.Where(a => a.Name != "_FillValue").Append(NcAttribute.Of("_FillValue", ClimatologyNetCdfWriter.Fill)));
 
     /// <summary>The frame dimensions behind a leading time dimension.</summary>
     public IEnumerable<NcDimension> FieldDimensions() => new[] { Time }.Concat(_template.FrameDimensions.Select(d => _dimensions[d]));
