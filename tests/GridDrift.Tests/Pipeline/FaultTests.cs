@@ -26,6 +26,35 @@ public class FaultTests(Xunit.Abstractions.ITestOutputHelper output)
         Assert.Contains("another griddrift run", Assert.Single(outcome.StderrLines));
     }
 
+    [Fact]
+    public void The_refusal_names_the_run_that_holds_the_folder()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 20, stepHours: 24);
+        File.WriteAllText(dir.File("recipe.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"products\"\n\n[stats]\n");
+        Directory.CreateDirectory(dir.File("products/.griddrift-run"));
+        using var held = GridDrift.Pipeline.RunLock.Take(dir.File("products/.griddrift-run"), dir.File("products"));
+        var outcome = CliRun.Run("run", dir.File("recipe.toml"));
+        Assert.Equal(2, outcome.ExitCode);
+        Assert.Contains($"process {Environment.ProcessId} on ", Assert.Single(outcome.StderrLines));
+    }
+
+    [Fact]
+    public void Temporary_files_of_a_dead_run_are_removed_by_the_next_run()
+    {
+        using var dir = new TempFolder();
+        SampleFiles.Record(dir.File("in.nc"), frames: 20, stepHours: 24);
+        File.WriteAllText(dir.File("recipe.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"products\"\n\n[stats]\n");
+        Directory.CreateDirectory(dir.File("products/figures"));
+        // what a run killed before renaming leaves: its writers' temporary names
+        string[] dead = [dir.File("products/.stats.nc.0a1b2c3d.part"), dir.File("products/figures/.series_global.png.part.png")];
+        foreach (var f in dead) File.WriteAllText(f, "half");
+        var outcome = CliRun.Run("run", dir.File("recipe.toml"));
+        Assert.True(outcome.ExitCode == 0, outcome.Stderr);
+        Assert.All(dead, f => Assert.False(File.Exists(f), f));
+        Assert.True(File.Exists(dir.File("products/stats.nc")));
+    }
+
     /// <summary>
     /// Kills at moments drawn from a seeded generator over the span of an uninterrupted run until
     /// that many runs were killed: two in CI; on demand more, e.g. GRIDDRIFT_FAULT_TRIALS=10
