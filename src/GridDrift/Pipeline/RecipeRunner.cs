@@ -92,11 +92,14 @@ internal static class RecipeRunner
                 log?.Invoke($"{step}: up to date, skipped");
                 continue;
             }
+            var stamps = Stamps(stepInputs);
             var clock = System.Diagnostics.Stopwatch.StartNew();
             var summary = registered.Run(new StepContext(recipe, inputs, variable, regions, stepInputs, outputs, how, slice, Product, Resolve, outcomes));
             var done = new StepOutcome(step, false, outputs, summary, clock.Elapsed);
             outcomes.Add(done);
-            WriteCheckpoint(checkpoint, fingerprint, outputs, summary);
+            if (Changed(stepInputs, stamps) is { } changed)
+                throw new BadInputException(changed, null, $"changed while the {step} step read it: its products are not marked complete; run again once the file is settled");
+            WriteCheckpoint(checkpoint, fingerprint, shard is null ? stepInputs : [], outputs, summary);
             log?.Invoke($"{step}: done in {clock.Elapsed.TotalSeconds:0.0} s");
         }
         return outcomes;
@@ -227,15 +230,37 @@ internal static class RecipeRunner
             if (outputs.Any(o => !File.Exists(o))) return false;
             var newestInput = inputs.Where(File.Exists).Select(File.GetLastWriteTimeUtc).DefaultIfEmpty(DateTime.MinValue).Max();
             if (outputs.Select(File.GetLastWriteTimeUtc).Min() < newestInput) return false;
+            // timestamps can lie (cp -p keeps an older one): where the step recorded its inputs' checksums, they must still hold
+            if (saved["inputs_sha256"] is JsonObject sums)
+                foreach (var input in inputs.Where(File.Exists))
+                    if ((string?)sums[Path.GetFullPath(input)] is { } recorded && recorded != ChecksumCache.Sha256(input)) return false;
             summary = saved["summary"]?.DeepClone().AsObject() ?? new JsonObject();
             return true;
         }
         catch (JsonException) { return false; }
     }
 
-    internal static void WriteCheckpoint(string path, string fingerprint, string[] outputs, JsonObject summary)
+    /// <summary>Each input's length and last write time: what tells, cheaply, that a file changed while a step read it.</summary>
+    static (long Length, DateTime Written)[] Stamps(string[] inputs) =>
+        inputs.Select(f => new FileInfo(f) is { Exists: true } i ? (i.Length, i.LastWriteTimeUtc) : (-1L, DateTime.MinValue)).ToArray();
+
+    static string? Changed(string[] inputs, (long Length, DateTime Written)[] before)
+    {
+        var after = Stamps(inputs);
+        for (int i = 0; i < inputs.Length; i++) if (after[i] != before[i]) return inputs[i];
+        return null;
+    }
+
+    /// <param name="hashed">the inputs whose checksums the checkpoint records (a shard hashes only its own slice's files, so it records none)</param>
+    internal static void WriteCheckpoint(string path, string fingerprint, string[] hashed, string[] outputs, JsonObject summary)
     {
         var json = new JsonObject { ["fingerprint"] = fingerprint, ["outputs"] = new JsonArray(outputs.Select(o => (JsonNode)o).ToArray()), ["summary"] = summary.DeepClone() };
+        if (hashed.Length > 0)
+        {
+            var sums = new JsonObject();
+            foreach (var input in hashed.Where(File.Exists)) sums[Path.GetFullPath(input)] = ChecksumCache.Sha256(input);
+            json["inputs_sha256"] = sums;
+        }
         GridDrift.Outputs.AtomicFile.WriteAllText(path, json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
     }
 

@@ -101,7 +101,7 @@ internal static class ShardGather
                 if (shardSummary?["regions"] is { } regions) summary["regions"] = regions.DeepClone();
             }
             summary["shards"] = first.Shard.Count;
-            RecipeRunner.WriteCheckpoint(checkpoint, fingerprint, outputs, summary);
+            RecipeRunner.WriteCheckpoint(checkpoint, fingerprint, pieceFiles, outputs, summary);
             outcomes.Add(new GatherOutcome(step, false, outputs, summary));
             log?.Invoke($"{step}: gathered {first.Shard.Count} shards in {clock.Elapsed.TotalSeconds:0.0} s");
         }

@@ -40,6 +40,23 @@ public class FaultTests(Xunit.Abstractions.ITestOutputHelper output)
     }
 
     [Fact]
+    public void An_input_replaced_under_an_older_timestamp_is_not_up_to_date()
+    {
+        using var dir = new TempFolder();
+        string input = SampleFiles.Record(dir.File("in.nc"), frames: 20, stepHours: 24);
+        File.WriteAllText(dir.File("recipe.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"products\"\n\n[stats]\nstat = [\"mean\"]\n");
+        Assert.Equal(0, CliRun.Run("run", dir.File("recipe.toml"), "--quiet").ExitCode);
+        var stamp = File.GetLastWriteTimeUtc(input);
+        // other content, the same length, and a timestamp older than the products: what cp -p of an older file does
+        SampleFiles.Record(input, frames: 20, stepHours: 24, firstHour: 6);
+        File.SetLastWriteTimeUtc(input, stamp.AddDays(-1));
+        var rerun = CliRun.Run("run", dir.File("recipe.toml"));
+        Assert.True(rerun.ExitCode == 0, rerun.Stderr);
+        Assert.DoesNotContain("up to date", rerun.Stderr);
+        Assert.Contains("stats: done", rerun.Stderr);
+    }
+
+    [Fact]
     public void Temporary_files_of_a_dead_run_are_removed_by_the_next_run()
     {
         using var dir = new TempFolder();
