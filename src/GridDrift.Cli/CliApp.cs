@@ -54,6 +54,12 @@ public static class CliApp
             error.WriteLine($"griddrift: {Terminal.Safe(e.Message)}");
             return ExitCodes.BadInput;
         }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            // a folder that cannot be written, a full disk: the environment's fault, told in one line like bad input
+            error.WriteLine($"griddrift: cannot write or read a file: {Terminal.Safe(e.Message)}");
+            return ExitCodes.BadInput;
+        }
         catch (Exception e) when (e is not OperationCanceledException)
         {
             error.WriteLine($"griddrift: internal fault ({e.GetType().Name}): {Terminal.Safe(e.Message)}. Please report it with the command that caused it.");

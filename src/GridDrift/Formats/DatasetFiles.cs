@@ -8,7 +8,20 @@ internal static class DatasetFiles
 {
     static ReadOnlySpan<byte> Hdf5Signature => [0x89, (byte)'H', (byte)'D', (byte)'F', (byte)'\r', (byte)'\n', 0x1A, (byte)'\n'];
 
+    /// <summary>
+    /// Opens a file; whatever a malformed file makes a reader throw while its metadata is read —
+    /// an overflow or an allocation sized by a corrupt count included — is bad input naming the file.
+    /// </summary>
     public static IDatasetReader Open(string path)
+    {
+        try { return Sniff(path); }
+        catch (Exception e) when (e is not (BadInputException or OperationCanceledException))
+        {
+            throw new BadInputException(path, null, $"cannot be read as NetCDF ({e.GetType().Name}: {e.Message})", e);
+        }
+    }
+
+    static IDatasetReader Sniff(string path)
     {
         if (Directory.Exists(path)) throw new BadInputException(path, null, "is a directory, not a NetCDF file");
         if (!File.Exists(path)) throw new BadInputException(path, null, "no such file");

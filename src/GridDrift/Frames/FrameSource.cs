@@ -89,6 +89,12 @@ internal sealed class FrameSource : IDisposable
                     axes ??= fileAxes;
                     parts.Add(new Part(reader, v, codec, time, timeDim));
                 }
+                catch (Exception e) when (e is ArithmeticException or OutOfMemoryException or IndexOutOfRangeException or InvalidOperationException)
+                {
+                    // numbers in a malformed file (a dimension length, a time value) that overflow or cannot be held: bad input, not a fault
+                    reader.Dispose();
+                    throw new BadInputException(path, variable, $"cannot be read ({e.GetType().Name}: {e.Message})", e);
+                }
                 catch
                 {
                     reader.Dispose();

@@ -55,6 +55,13 @@ internal sealed class Recipe
     public static Recipe Load(string path)
     {
         if (!File.Exists(path)) throw new BadInputException(path, null, "no such recipe file");
+        try { return Parse(path); }
+        // what the TOML library refuses beyond its grammar (nesting deeper than it allows) is a fault of the recipe
+        catch (Tomlyn.TomlException e) { throw new BadInputException(path, null, "not a recipe GridDrift can read: " + e.Message, e); }
+    }
+
+    static Recipe Parse(string path)
+    {
         string text = File.ReadAllText(path);
         var document = SyntaxParser.Parse(text, path, false);
         if (document.HasErrors)

@@ -129,6 +129,7 @@ internal static class ClassicHeaderParser
             bool isRecord = r.DimIds.Length > 0 && r.DimIds[0] == unlimitedId;
             if (r.Begin < headerEnd)
                 throw Fault(r.Name, $"data offset {r.Begin} lies inside the header (which ends at byte {headerEnd})");
+            if (r.Begin % 4 != 0) throw Fault(r.Name, $"data offset {r.Begin} is not on a 4-byte boundary, where the netCDF library puts every variable's data");
             long extent = isRecord
                 ? (numrecs == 0 ? 0 : r.Begin + (numrecs - 1) * recordSize + slabs[i])
                 : r.Begin + slabs[i];
@@ -141,7 +142,42 @@ internal static class ClassicHeaderParser
             variables.Add(variable);
             layouts[variable] = new ClassicReader.VariableLayout(r.Begin, inner, isRecord, slabs[i]);
         }
+        CheckLayout(raws, slabs, unlimitedId, recordSize, Fault);
         return build(variant, dims, globals, variables, layouts, numrecs, recordSize);
+    }
+
+    /// <summary>
+    /// Where the data of each variable lies, as the netCDF library lays it out (NetCDF Classic
+    /// Format Specification; netCDF-C aligns every variable's begin to 4 bytes): non-record data
+    /// first, each variable's bytes after the one before without overlap, then the record
+    /// variables, each record holding their slabs in turn within the record size. A header whose
+    /// offsets break this would make values be read from the wrong bytes: it is refused.
+    /// </summary>
+    static void CheckLayout(List<RawVariable> raws, long[] slabs, int unlimitedId, long recordSize, Func<string?, string, BadInputException> fault)
+    {
+        var fixedData = new List<(long Begin, long Bytes, string Name)>();
+        var recordData = new List<(long Begin, long Bytes, string Name)>();
+        for (int i = 0; i < raws.Count; i++)
+        {
+            var r = raws[i];
+            (r.DimIds.Length > 0 && r.DimIds[0] == unlimitedId ? recordData : fixedData).Add((r.Begin, slabs[i], r.Name));
+        }
+        static void NoOverlap(List<(long Begin, long Bytes, string Name)> parts, Func<string?, string, BadInputException> fault)
+        {
+            parts.Sort((a, b) => a.Begin.CompareTo(b.Begin));
+            for (int i = 1; i < parts.Count; i++)
+                if (parts[i].Begin < parts[i - 1].Begin + parts[i - 1].Bytes)
+                    throw fault(parts[i].Name, $"data at byte {parts[i].Begin} overlap those of '{parts[i - 1].Name}' (bytes {parts[i - 1].Begin} to {parts[i - 1].Begin + parts[i - 1].Bytes - 1})");
+        }
+        NoOverlap(fixedData, fault);
+        NoOverlap(recordData, fault);
+        if (recordData.Count == 0) return;
+        long fixedEnd = fixedData.Count == 0 ? 0 : fixedData.Max(p => p.Begin + p.Bytes);
+        long first = recordData[0].Begin;
+        if (first < fixedEnd) throw fault(recordData[0].Name, $"record data begin at byte {first}, before the end of the non-record data (byte {fixedEnd})");
+        var last = recordData[^1];
+        if (last.Begin + last.Bytes > first + recordSize)
+            throw fault(last.Name, $"its slab of each record ends at byte {last.Begin + last.Bytes}, beyond the record of {recordSize} bytes that begins at byte {first}");
     }
 
     /// <summary>Reads a list's tag and element count: ABSENT is two zeros.</summary>

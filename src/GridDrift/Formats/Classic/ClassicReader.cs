@@ -67,7 +67,8 @@ internal sealed class ClassicReader : IDatasetReader, IStoredFrameLayout
         if (destination.Length == 0) return;
 
         var reader = new RunReader(this, variable, destination);
-        SlabWalker.ForEachRun(layout.Begin, layout.IsRecord, RecordSize, layout.InnerShape, start, count, size, ref reader);
+        try { SlabWalker.ForEachRun(layout.Begin, layout.IsRecord, RecordSize, layout.InnerShape, start, count, size, ref reader); }
+        catch (IOException e) { throw new BadInputException(Path, variable.Name, $"data cannot be read ({e.Message})", e); }
         RawValues.SwapInPlace(destination, size);
     }
 
