@@ -14,10 +14,7 @@ public class ComparisonTests
     public void A_constant_offset_gives_its_bias_and_RMS_difference_at_the_shared_times()
     {
         using var dir = new TempFolder();
-        string obs = SampleFiles.Record(dir.File("obs.nc"), frames: 8, stepHours: 24, nlat: 6, nlon: 12);
-        // the candidate: the same fields plus 2, at the reference's times 2 … 7 only
-        string candidate = SampleFiles.Record(dir.File("cand.nc"), hours: Enumerable.Range(2, 6).Select(i => 24.0 * i), nlat: 6, nlon: 12);
-        AddOffset(candidate, 2f);
+        var (obs, candidate) = Records(dir);
         var outcome = CliRun.Run("similarity", "--reference", obs, "--candidate", candidate, "--var", "tcwv", "--regions", "global", "bands:60",
             "--metric", "bias,rmsd,corr", "--range", "0:300", "--out", dir.File("cmp.nc"), "--quiet");
         Assert.True(outcome.ExitCode == 0, outcome.Stderr);
@@ -36,9 +33,7 @@ public class ComparisonTests
     public void The_library_comparison_gives_the_same_offset_in_memory()
     {
         using var dir = new TempFolder();
-        string obs = SampleFiles.Record(dir.File("obs.nc"), frames: 8, stepHours: 24, nlat: 6, nlon: 12);
-        string candidate = SampleFiles.Record(dir.File("cand.nc"), hours: Enumerable.Range(2, 6).Select(i => 24.0 * i), nlat: 6, nlon: 12);
-        AddOffset(candidate, 2f);
+        var (obs, candidate) = Records(dir);
         using var reference = GridDrift.GridRecord.Open([obs], "tcwv");
         using var model = GridDrift.GridRecord.Open([candidate], "tcwv");
         var series = model.Comparison(reference, model.Regions("global"), range: "0:300");
@@ -46,6 +41,15 @@ public class ComparisonTests
         Assert.All(series.Of("global", "bias"), v => Assert.True(Math.Abs(v - 2) < 1e-5, $"bias {v}"));
         Assert.All(series.Of("global", "rmsd"), v => Assert.True(Math.Abs(v - 2) < 1e-5, $"rmsd {v}"));
         Assert.All(series.Of("global", "corr"), v => Assert.True(Math.Abs(v - 1) < 1e-9, $"corr {v}"));
+    }
+
+    /// <summary>A reference of 8 daily frames and a candidate: the same fields plus 2, at the reference's times 2 … 7 only.</summary>
+    static (string Reference, string Candidate) Records(TempFolder dir)
+    {
+        string obs = SampleFiles.Record(dir.File("obs.nc"), frames: 8, stepHours: 24, nlat: 6, nlon: 12);
+        string candidate = SampleFiles.Record(dir.File("cand.nc"), hours: Enumerable.Range(2, 6).Select(i => 24.0 * i), nlat: 6, nlon: 12);
+        AddOffset(candidate, 2f);
+        return (obs, candidate);
     }
 
     /// <summary>Rewrites a sample record with every tcwv value raised by <paramref name="offset"/>.</summary>
