@@ -50,7 +50,8 @@ internal sealed class Hdf5Reader : IDatasetReader
         NativeFile file;
         try
         {
-            file = H5File.OpenRead(path);
+            var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16);
+            file = H5File.Open(new BoundedReadStream(stream, BoundedReadStream.BudgetFor(stream.Length)), leaveOpen: false);
         }
         catch (Exception e) when (e is not OutOfMemoryException)
         {
