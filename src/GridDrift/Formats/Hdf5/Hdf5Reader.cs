@@ -39,6 +39,9 @@ internal sealed class Hdf5Reader : IDatasetReader
         var vars = new List<NcVariable>();
         var builder = new ModelBuilder(this, dims, vars);
         builder.Group(file, "");
+        // HDF5 sizes are unsigned 64-bit: one beyond what a length can be is a corrupt dataspace
+        if (dims.FirstOrDefault(d => d.Length < 0) is { } broken)
+            throw new BadInputException(path, broken.Name, $"dimension length {(ulong)broken.Length} is out of range");
         Dimensions = dims;
         Variables = vars;
         Attributes = ReadAttributes(file, null);
@@ -149,6 +152,9 @@ internal sealed class Hdf5Reader : IDatasetReader
             }
             var (type, kind) = Hdf5Types.Classify(ds.Type);
             var variable = new NcVariable(prefix + ds.Name, type, vdims, owner.ReadAttributes(ds, prefix + ds.Name), kind);
+            // a corrupt dataspace can declare sizes no file holds: refused here, before any count is multiplied out
+            try { _ = checked(variable.ElementCount * (NcTypes.IsNumeric(type) || type == NcType.Char ? NcTypes.SizeOf(type) : 1)); }
+            catch (OverflowException) { throw new BadInputException(owner.Path, variable.Name, "declares more elements than any file can hold"); }
             if (NcTypes.IsNumeric(type) && NcTypes.SizeOf(type) > 1 && Hdf5ByteOrder.IsBigEndian(ds.Type) && Hdf5ByteOrder.RelabelLittleEndian(ds.Type))
                 owner._bigEndian.Add(variable);
             return variable;
@@ -249,7 +255,8 @@ internal sealed class Hdf5Reader : IDatasetReader
             }
             if (_bigEndian.Contains(variable)) RawValues.SwapInPlace(destination, size);
         }
-        catch (Exception e) when (e is not (BadInputException or ArgumentException))
+        // whatever the HDF5 library throws on corrupt data (overflows and out-of-range sizes included) is the file's fault
+        catch (Exception e) when (e is not BadInputException)
         {
             lock (_gate) _fault ??= e.Message;
             throw new BadInputException(Path, variable.Name, $"data cannot be read ({e.Message})", e);
@@ -286,7 +293,7 @@ internal sealed class Hdf5Reader : IDatasetReader
         {
             lock (_gate) return ds.Read<string[]>();
         }
-        catch (Exception e) when (e is not OutOfMemoryException)
+        catch (Exception e) when (e is not BadInputException)
         {
             throw new BadInputException(Path, variable.Name, $"strings cannot be read ({e.Message})", e);
         }
