@@ -11,12 +11,6 @@ internal static class KeyOptions
         var option = new Option<T>("--" + key.Name) { Description = key.Description, Required = required };
         if (!required) option.DefaultValueFactory = _ => key.Default;
         if (typeof(T) == typeof(string[])) option.AllowMultipleArgumentsPerToken = true;
-        option.Validators.Add(r =>
-        {
-            var value = r.GetValueOrDefault<T>();
-            try { key.Check(value); }
-            catch (FormatException e) { r.AddError($"--{key.Name} {(value is string[] list ? string.Join(" ", list) : value)}: {e.Message}"); }
-        });
-        return option;
+        return option.CheckedBy(key.Check);
     }
 }

@@ -120,10 +120,13 @@ internal sealed class Recipe
     public bool Has(string section) => Sections.ContainsKey(section);
 
     /// <summary>A step's option: the key's default when absent, else the value checked as the command line checks it.</summary>
-    public T Get<T>(string section, StepKey<T> key)
+    public T Get<T>(string section, StepKey<T> key) => Checked(section, key) is { } value ? (T)value : key.Default;
+
+    /// <summary>A key's value checked and in the key's own type, or null when the table does not give it; a fault names the line and key.</summary>
+    public object? Checked(string section, StepKey key)
     {
-        if (!Sections.TryGetValue(section, out var s) || !s.Keys.TryGetValue(key.Name, out var v)) return key.Default;
-        try { return (T)key.FromRecipe(v.Data); }
+        if (!Sections.TryGetValue(section, out var s) || !s.Keys.TryGetValue(key.Name, out var v)) return null;
+        try { return key.FromRecipe(v.Data); }
         catch (FormatException e) { throw BadInputException.InRecipe(Path, v.Line, $"{section}.{key.Name}", e.Message); }
     }
 

@@ -266,10 +266,7 @@ internal static class RecipeRunner
 
     static void CheckKeys(Recipe r, string section, IReadOnlyList<StepKey> keys)
     {
-        foreach (var key in keys)
-            if (r.Sections[section].Keys.TryGetValue(key.Name, out var v))
-                try { key.FromRecipe(v.Data); }
-                catch (FormatException e) { throw BadInputException.InRecipe(r.Path, v.Line, $"{section}.{key.Name}", e.Message); }
+        foreach (var key in keys) r.Checked(section, key);
     }
 
     static void CheckStats(Recipe r) => CheckKeys(r, "stats", StatsKeys.All);

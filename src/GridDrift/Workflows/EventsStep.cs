@@ -95,9 +95,5 @@ internal static class EventsStep
         return value;
     }
 
-    public static Detector ParseDetector(string text) => MethodNames.ParseDetector(text);
-
-    public static ChangeMethod[] ParseChangeMethods(string text) => MethodNames.ParseChangeMethods(text);
-
     public static string Serialize(JsonObject json) => json.ToJsonString(new JsonSerializerOptions { WriteIndented = true });
 }

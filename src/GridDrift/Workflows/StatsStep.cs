@@ -38,7 +38,6 @@ internal static class StatsStep
 {
     public static StatsSummary Run(StatsOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
-        ValidFraction.Check(o.MinValid);
         using var record = GridRecord.Open(o.Inputs, o.Variable, o.Units, o.EarthRadius);
         var regions = record.Regions([.. o.Regions]);
         var statistics = GridRecord.StatisticsOf(o.Statistics);

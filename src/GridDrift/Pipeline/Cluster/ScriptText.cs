@@ -12,7 +12,7 @@ internal static class ScriptText
         int at = text.AsSpan().IndexOfAnyInRange('\0', '\x1f');
         if (at < 0) at = text.AsSpan().IndexOfAnyInRange('\x7f', '\x9f');
         if (at >= 0)
-            throw new BadInputException(null, null, $"{what} holds a control character (\\u{(int)text[at]:x4}), which a batch script cannot carry safely: {Escaped(text)}");
+            throw new BadInputException(null, null, $"{what} holds a control character (\\u{(int)text[at]:x4}), which a batch script cannot carry safely: {GridDrift.Outputs.Description.Printable.OneLine(text)}");
     }
 
     /// <summary>A directive (--name=value or a path) as one word for sbatch.</summary>
@@ -23,6 +23,4 @@ internal static class ScriptText
         string name = eq < 0 ? "" : text[..(eq + 1)], value = eq < 0 ? text : text[(eq + 1)..];
         return name + "\"" + value.Replace("\\", "\\\\").Replace("\"", "\\\"") + "\"";
     }
-
-    static string Escaped(string text) => string.Concat(text.Select(c => char.IsControl(c) ? $"\\u{(int)c:x4}" : c.ToString()));
 }

@@ -1,3 +1,4 @@
+using GridDrift.Analysis;
 using GridDrift.Operators.Climatology;
 using GridDrift.Operators.Similarity;
 using GridDrift.Operators.Statistics;
@@ -74,11 +75,11 @@ internal static class AnomaliesKeys
 internal static class EventsKeys
 {
     public static readonly StepKey<string> Detect = new("detect", "detectors: robust-z,hampel,iqr,seasonal-residual,gesd (default: all)",
-        "robust-z,hampel,iqr,seasonal-residual,gesd", ListOf(EventsStep.ParseDetector));
+        "robust-z,hampel,iqr,seasonal-residual,gesd", ListOf(MethodNames.ParseDetector));
     public static readonly StepKey<string> On = new("on", "raw: detect on the values; residuals: on the residuals of a seasonal model", "raw", OneOf("raw", "residuals"));
     public static readonly StepKey<string> Window = new("window", "moving window of the event counts, in days (e.g. 365d)", "365d", Accepts(w => EventsStep.ParseWindowDays(w)));
     public static readonly StepKey<string> Changepoints = new("changepoints", "pettitt, pelt (both PELT costs), pelt-mean, pelt-mean-variance", "pettitt,pelt",
-        ListOf(EventsStep.ParseChangeMethods));
+        ListOf(MethodNames.ParseChangeMethods));
     public static readonly StepKey<int> Consensus = new("consensus", "detectors that must agree for an event", 2, Between(1, 5));
     public static readonly StepKey<int> MinSegment = new("min-segment", "PELT's shortest segment, in time steps", 10, AtLeast(2));
     /// <summary>A recipe's series to analyse, named as a product of an earlier step (the command line takes it as its argument).</summary>
@@ -101,8 +102,8 @@ internal static class AttributeKeys
 internal static class EventsAnalysis
 {
     public static Analysis.SeriesAnalysisOptions From(string detect, string on, string window, string changepoints, int consensus, int minSegment) => new(
-        StatsKeys.Items(detect).Select(EventsStep.ParseDetector).Distinct().ToArray(),
-        StatsKeys.Items(changepoints).SelectMany(EventsStep.ParseChangeMethods).Distinct().ToArray(),
+        StatsKeys.Items(detect).Select(MethodNames.ParseDetector).Distinct().ToArray(),
+        StatsKeys.Items(changepoints).SelectMany(MethodNames.ParseChangeMethods).Distinct().ToArray(),
         on == "residuals",
         EventsStep.ParseWindowDays(window),
         consensus,
