@@ -18,7 +18,15 @@ public sealed record Nc4Options(int Deflate = 1, bool Shuffle = false)
 /// </summary>
 internal static unsafe class Nc4Converter
 {
+    /// <summary>netCDF-C (and the HDF5 library under it) is not thread-safe: one conversion at a time in a process.</summary>
+    static readonly object Library = new();
+
     public static void Convert(string classicPath, string nc4Path, Nc4Options options)
+    {
+        lock (Library) ConvertAlone(classicPath, nc4Path, options);
+    }
+
+    static void ConvertAlone(string classicPath, string nc4Path, Nc4Options options)
     {
         if (!NetCdfLibrary.TryLoad(out var why)) throw new BadInputException(nc4Path, null, "--format netcdf-4: " + why);
         if (options.Deflate is < 0 or > 9) throw new BadInputException(null, null, $"--deflate {options.Deflate}: choose 1 (fast) to 9 (small), or 0 for none");
