@@ -26,18 +26,21 @@ internal sealed class Hdf5Reader : IDatasetReader
     readonly HashSet<NcVariable> _bigEndian = new(ReferenceEqualityComparer.Instance);
 
     public string Path { get; }
+
+    /// <summary>The checksummed metadata structures verified on open (kind, offset, bytes covered).</summary>
+    internal IReadOnlyList<(string Kind, long At, int Covered)> VerifiedMetadata { get; }
     public string Format { get; }
     public IReadOnlyList<NcDimension> Dimensions { get; }
     public IReadOnlyList<NcAttribute> Attributes { get; }
     public IReadOnlyList<NcVariable> Variables { get; }
 
-    Hdf5Reader(string path, NativeFile file)
+    Hdf5Reader(string path, NativeFile file, Hdf5MetadataCheck check)
     {
         Path = path;
         _file = file;
         var dims = new List<NcDimension>();
         var vars = new List<NcVariable>();
-        var builder = new ModelBuilder(this, dims, vars);
+        var builder = new ModelBuilder(this, dims, vars, check);
         builder.Group(file, "");
         // HDF5 sizes are unsigned 64-bit: one beyond what a length can be is a corrupt dataspace
         if (dims.FirstOrDefault(d => d.Length < 0) is { } broken)
@@ -45,11 +48,14 @@ internal sealed class Hdf5Reader : IDatasetReader
         Dimensions = dims;
         Variables = vars;
         Attributes = ReadAttributes(file, null);
+        VerifiedMetadata = check.Verified;
         Format = file.AttributeExists("_nc3_strict") ? "netCDF-4 classic model" : "netCDF-4";
     }
 
     public static Hdf5Reader Open(string path)
     {
+        // checksums first: nothing is read from metadata the HDF5 library itself would refuse
+        using var check = Hdf5MetadataCheck.Open(path);
         NativeFile file;
         try
         {
@@ -62,7 +68,7 @@ internal sealed class Hdf5Reader : IDatasetReader
         }
         try
         {
-            return new Hdf5Reader(path, file);
+            return new Hdf5Reader(path, file, check);
         }
         catch (BadInputException)
         {
@@ -77,7 +83,7 @@ internal sealed class Hdf5Reader : IDatasetReader
     }
 
     /// <summary>Builds dimensions and variables group by group; dimensions are visible in their group and below.</summary>
-    sealed class ModelBuilder(Hdf5Reader owner, List<NcDimension> dims, List<NcVariable> vars)
+    sealed class ModelBuilder(Hdf5Reader owner, List<NcDimension> dims, List<NcVariable> vars, Hdf5MetadataCheck check)
     {
         // Dimension scales by object address, so DIMENSION_LIST references resolve without a name lookup.
         readonly Dictionary<ulong, NcDimension> _scales = new();
@@ -88,6 +94,7 @@ internal sealed class Hdf5Reader : IDatasetReader
         public void Group(NativeGroup group, string prefix)
         {
             var links = Hdf5Links.Children(group);
+            foreach (var link in links) check.Object(link.Address);
             var datasets = links.Where(l => l.Object is NativeDataset).Select(l => (NativeDataset)l.Object!).ToList();
             var scope = new Dictionary<string, NcDimension>(_scope);
             foreach (var ds in datasets.Where(IsDimensionScale).OrderBy(DimensionId))

@@ -21,6 +21,9 @@ for path in open(sys.argv[1]).read().split("\n")[skip:]:
             ds.set_auto_maskandscale(False)
             variables = {}
             for name, v in ds.variables.items():
+                if int(np.prod(v.shape, dtype=np.float64)) > 2 ** 24:
+                    # a corrupt length can ask for terabytes; no seed holds more than this (GridDrift's side refuses the same)
+                    raise ValueError("larger than any seed")
                 if v.dtype == str or v.dtype.kind in "SUO":
                     values = [str(x) for x in np.ravel(v[:])]
                     variables[name] = {"shape": list(v.shape), "text": values}
