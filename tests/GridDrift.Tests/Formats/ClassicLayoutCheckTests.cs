@@ -62,4 +62,56 @@ public class ClassicLayoutCheckTests
         File.WriteAllBytes(dir.File("same.nc"), bytes);
         DatasetFiles.Open(dir.File("same.nc")).Dispose();
     }
+
+    /// <summary>
+    /// The record dimension's length field (0 for "unlimited" in the classic header) overwritten with
+    /// a fixed length from 1 to 8: the record variables become fixed variables at their old begins.
+    /// Two seeds: GridDrift's writer (coordinate variables defined after time) and ncgen (record
+    /// variables only). python netCDF4 (netCDF-C) is the witness: GridDrift refuses a file exactly
+    /// when it does (data out of definition order, overlapping, beyond the end), and otherwise reads
+    /// the same shape and values.
+    /// </summary>
+    [InteropFact(Needs.PythonNetcdf | Needs.Ncgen)]
+    public void A_record_dimension_turned_fixed_is_read_or_refused_as_netCDF_C_does()
+    {
+        using var dir = new TempFolder();
+        var seeds = new[]
+        {
+            File1(dir).Bytes,
+            File.ReadAllBytes(ExternalTools.RunNcgen(
+                "netcdf seed {\ndimensions:\n time = UNLIMITED ;\n lat = 3 ;\n lon = 4 ;\nvariables:\n double time(time) ;\n float tcwv(time, lat, lon) ;\ndata:\n time = 0, 1, 2, 3, 4, 5 ;\n tcwv = "
+                + string.Join(", ", Enumerable.Range(0, 72)) + " ;\n}\n", "classic", dir.File("ncgen.nc"))),
+        };
+        var paths = new List<string>();
+        foreach (var (bytes, seed) in seeds.Select((b, i) => (b, i)))
+        {
+            int at = bytes.AsSpan(0, 256).IndexOf("time"u8) + 4;
+            Assert.Equal(0u, BinaryPrimitives.ReadUInt32BigEndian(bytes.AsSpan(at)));
+            for (uint length = 1; length <= 8; length++)
+            {
+                var copy = (byte[])bytes.Clone();
+                BinaryPrimitives.WriteUInt32BigEndian(copy.AsSpan(at), length);
+                paths.Add(dir.File($"seed{seed}_fixed{length}.nc"));
+                File.WriteAllBytes(paths[^1], copy);
+            }
+        }
+        var witness = NetcdfWitness.Digests(dir.File("list.txt"), paths);
+        int read = 0;
+        foreach (var path in paths)
+        {
+            IDatasetReader? reader = null;
+            try { reader = DatasetFiles.Open(path); } catch (BadInputException) { }
+            using (reader)
+            {
+                Assert.True(NetcdfWitness.Refuses(witness[path]) == (reader is null), $"{Path.GetFileName(path)}: netCDF-C refuses {NetcdfWitness.Refuses(witness[path])}, GridDrift {reader is null}");
+                if (reader is null) continue;
+                read++;
+                var expected = witness[path].GetProperty("variables").GetProperty("tcwv");
+                var v = reader.RequireVariable("tcwv");
+                Assert.Equal(expected.GetProperty("shape").EnumerateArray().Select(e => e.GetInt64()), v.Shape);
+                Assert.Equal(expected.GetProperty("sum").GetDouble(), reader.ReadAllDoubles(v).Where(double.IsFinite).Sum(), 6);
+            }
+        }
+        Assert.InRange(read, 1, paths.Count - 1); // both outcomes occur
+    }
 }

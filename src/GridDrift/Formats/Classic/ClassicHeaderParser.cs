@@ -149,9 +149,10 @@ internal static class ClassicHeaderParser
     /// <summary>
     /// Where the data of each variable lies, as the netCDF library lays it out (NetCDF Classic
     /// Format Specification; netCDF-C aligns every variable's begin to 4 bytes): non-record data
-    /// first, each variable's bytes after the one before without overlap, then the record
-    /// variables, each record holding their slabs in turn within the record size. A header whose
-    /// offsets break this would make values be read from the wrong bytes: it is refused.
+    /// first, in the order the variables are defined, each after the one before without overlap;
+    /// then the record variables, in definition order, each record holding their slabs in turn
+    /// within the record size. netCDF-C refuses a header that breaks the order or overlaps
+    /// ("Unknown file format"); so does this, since values would be read from the wrong bytes.
     /// </summary>
     static void CheckLayout(List<RawVariable> raws, long[] slabs, int unlimitedId, long recordSize, Func<string?, string, BadInputException> fault)
     {
@@ -162,17 +163,21 @@ internal static class ClassicHeaderParser
             var r = raws[i];
             (r.DimIds.Length > 0 && r.DimIds[0] == unlimitedId ? recordData : fixedData).Add((r.Begin, slabs[i], r.Name));
         }
-        static void NoOverlap(List<(long Begin, long Bytes, string Name)> parts, Func<string?, string, BadInputException> fault)
+        static void InOrder(List<(long Begin, long Bytes, string Name)> parts, Func<string?, string, BadInputException> fault)
         {
-            parts.Sort((a, b) => a.Begin.CompareTo(b.Begin));
             for (int i = 1; i < parts.Count; i++)
-                if (parts[i].Begin < parts[i - 1].Begin + parts[i - 1].Bytes)
-                    throw fault(parts[i].Name, $"data at byte {parts[i].Begin} overlap those of '{parts[i - 1].Name}' (bytes {parts[i - 1].Begin} to {parts[i - 1].Begin + parts[i - 1].Bytes - 1})");
+            {
+                var (previous, part) = (parts[i - 1], parts[i]);
+                if (part.Begin < previous.Begin)
+                    throw fault(part.Name, $"data at byte {part.Begin} come before those of '{previous.Name}' (byte {previous.Begin}), which is defined ahead of it");
+                if (part.Begin < previous.Begin + previous.Bytes)
+                    throw fault(part.Name, $"data at byte {part.Begin} overlap those of '{previous.Name}' (bytes {previous.Begin} to {previous.Begin + previous.Bytes - 1})");
+            }
         }
-        NoOverlap(fixedData, fault);
-        NoOverlap(recordData, fault);
+        InOrder(fixedData, fault);
+        InOrder(recordData, fault);
         if (recordData.Count == 0) return;
-        long fixedEnd = fixedData.Count == 0 ? 0 : fixedData.Max(p => p.Begin + p.Bytes);
+        long fixedEnd = fixedData.Count == 0 ? 0 : fixedData[^1].Begin + fixedData[^1].Bytes;
         long first = recordData[0].Begin;
         if (first < fixedEnd) throw fault(recordData[0].Name, $"record data begin at byte {first}, before the end of the non-record data (byte {fixedEnd})");
         var last = recordData[^1];
