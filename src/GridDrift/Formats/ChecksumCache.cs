@@ -1,12 +1,11 @@
-using System.Globalization;
 
 namespace GridDrift.Formats;
 
 /// <summary>
 /// Input checksums remembered between runs: hashing costs about a core-second per gigabyte,
 /// and a record is usually analysed by several commands in a row. An entry is keyed by the
-/// file's full path, size and last-write time (UTC ticks) and is used only while all three
-/// still match, the way build tools decide a file is unchanged. The cache is one appended
+/// file's full path and its <see cref="FileStamp"/> (size, write time, and on Linux change time
+/// and inode) and is used only while all of them still match. The cache is one appended
 /// text file, $XDG_CACHE_HOME/griddrift/sha256.tsv (else ~/.cache/griddrift/sha256.tsv);
 /// GRIDDRIFT_CHECKSUM_CACHE=off turns it off, and any failure to read or write it only means
 /// the checksum is computed.
@@ -27,8 +26,7 @@ internal static class ChecksumCache
     {
         var info = new FileInfo(path);
         if (!info.Exists) return FileHash.Sha256(path);
-        string key = string.Join('\t', Path.GetFullPath(path), info.Length.ToString(CultureInfo.InvariantCulture),
-            info.LastWriteTimeUtc.Ticks.ToString(CultureInfo.InvariantCulture));
+        string key = Path.GetFullPath(path) + "\t" + FileStamp.Of(info);
         return InProcess.GetOrAdd(key, k => new Lazy<string>(() => Compute(path, k))).Value;
     }
 
@@ -79,8 +77,7 @@ internal static class ChecksumCache
             var parts = line.Split('\t');
             if (parts.Length != 4) continue;
             var info = new FileInfo(parts[1]);
-            if (info.Exists && info.Length.ToString(CultureInfo.InvariantCulture) == parts[2]
-                && info.LastWriteTimeUtc.Ticks.ToString(CultureInfo.InvariantCulture) == parts[3]) newest[parts[1]] = line;
+            if (info.Exists && FileStamp.Of(info) == parts[2] + "\t" + parts[3]) newest[parts[1]] = line;
         }
         string temp = cache + "." + Environment.ProcessId + ".part";
         File.WriteAllLines(temp, newest.Values);

@@ -67,6 +67,8 @@ internal static class RecipeRunner
         FrameSlice? slice = null;
         if (shard is { } spec) slice = ShardManifest.Begin(recipe, spec, inputs, variable, outDir);
         var outcomes = new List<StepOutcome>();
+        // the record as it was when the run began: every step's products must come from these very files
+        var atStart = inputs.Distinct().ToDictionary(Path.GetFullPath, Stamp);
 
         foreach (var registered in Steps.Where(s => recipe.Has(s.Name)))
         {
@@ -92,13 +94,13 @@ internal static class RecipeRunner
                 log?.Invoke($"{step}: up to date, skipped");
                 continue;
             }
-            var stamps = Stamps(stepInputs);
+            var stamps = stepInputs.Select(f => atStart.TryGetValue(Path.GetFullPath(f), out var s) ? s : Stamp(f)).ToArray();
             var clock = System.Diagnostics.Stopwatch.StartNew();
             var summary = registered.Run(new StepContext(recipe, inputs, variable, regions, stepInputs, outputs, how, slice, Product, Resolve, outcomes));
             var done = new StepOutcome(step, false, outputs, summary, clock.Elapsed);
             outcomes.Add(done);
             if (Changed(stepInputs, stamps) is { } changed)
-                throw new BadInputException(changed, null, $"changed while the {step} step read it: its products are not marked complete; run again once the file is settled");
+                throw new BadInputException(changed, null, $"changed while the run read it (seen after the {step} step): its products are not marked complete; run again once the file is settled");
             WriteCheckpoint(checkpoint, fingerprint, shard is null ? stepInputs : [], outputs, summary);
             log?.Invoke($"{step}: done in {clock.Elapsed.TotalSeconds:0.0} s");
         }
@@ -240,14 +242,12 @@ internal static class RecipeRunner
         catch (JsonException) { return false; }
     }
 
-    /// <summary>Each input's length and last write time: what tells, cheaply, that a file changed while a step read it.</summary>
-    static (long Length, DateTime Written)[] Stamps(string[] inputs) =>
-        inputs.Select(f => new FileInfo(f) is { Exists: true } i ? (i.Length, i.LastWriteTimeUtc) : (-1L, DateTime.MinValue)).ToArray();
+    /// <summary>What tells, cheaply, that a file changed while the run read it (<see cref="FileStamp"/>).</summary>
+    static string Stamp(string file) => new FileInfo(file) is { Exists: true } info ? FileStamp.Of(info) : "absent";
 
-    static string? Changed(string[] inputs, (long Length, DateTime Written)[] before)
+    static string? Changed(string[] inputs, string[] before)
     {
-        var after = Stamps(inputs);
-        for (int i = 0; i < inputs.Length; i++) if (after[i] != before[i]) return inputs[i];
+        for (int i = 0; i < inputs.Length; i++) if (Stamp(inputs[i]) != before[i]) return inputs[i];
         return null;
     }
 

@@ -44,6 +44,30 @@ public class ChecksumCacheTests
         });
     }
 
+    /// <summary>
+    /// What <c>cp -p</c> does: new contents of the same length under the old write time. On Linux
+    /// the change time moves with any write and cannot be set back, so the remembered checksum is
+    /// not used.
+    /// </summary>
+    [Fact]
+    public void New_contents_under_the_old_length_and_write_time_are_hashed_anew()
+    {
+        if (!OperatingSystem.IsLinux()) return; // elsewhere the stamp is length and write time only, as documented
+        using var dir = new TempFolder();
+        WithCacheIn(dir, () =>
+        {
+            string path = dir.File("input.nc");
+            File.WriteAllText(path, "abc");
+            var written = File.GetLastWriteTimeUtc(path);
+            Assert.Equal(Abc, ChecksumCache.Sha256(path));
+            Thread.Sleep(50); // file times advance by the kernel's clock tick (a few ms): a write in the same tick would not show
+            File.WriteAllText(path, "abd");
+            File.SetLastWriteTimeUtc(path, written);
+            Assert.Equal(written, File.GetLastWriteTimeUtc(path));
+            Assert.Equal(Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData("abd"u8)), ChecksumCache.Sha256(path));
+        });
+    }
+
     [Fact]
     public void A_file_longer_than_one_hashing_window_and_an_empty_file_hash_as_their_whole_bytes()
     {

@@ -39,8 +39,10 @@ public class FaultTests(Xunit.Abstractions.ITestOutputHelper output)
         Assert.Contains($"process {Environment.ProcessId} on ", Assert.Single(outcome.StderrLines));
     }
 
-    [Fact]
-    public void An_input_replaced_under_an_older_timestamp_is_not_up_to_date()
+    [Theory]
+    [InlineData(-1)] // an older write time than the products
+    [InlineData(0)] // the very same write time and length: only the contents differ
+    public void An_input_replaced_under_an_older_timestamp_is_not_up_to_date(int days)
     {
         using var dir = new TempFolder();
         string input = SampleFiles.Record(dir.File("in.nc"), frames: 20, stepHours: 24);
@@ -49,11 +51,36 @@ public class FaultTests(Xunit.Abstractions.ITestOutputHelper output)
         var stamp = File.GetLastWriteTimeUtc(input);
         // other content, the same length, and a timestamp older than the products: what cp -p of an older file does
         SampleFiles.Record(input, frames: 20, stepHours: 24, firstHour: 6);
-        File.SetLastWriteTimeUtc(input, stamp.AddDays(-1));
+        File.SetLastWriteTimeUtc(input, stamp.AddDays(days));
         var rerun = CliRun.Run("run", dir.File("recipe.toml"));
         Assert.True(rerun.ExitCode == 0, rerun.Stderr);
         Assert.DoesNotContain("up to date", rerun.Stderr);
         Assert.Contains("stats: done", rerun.Stderr);
+    }
+
+    /// <summary>
+    /// The input is rewritten after the first step finished and before the second began: the second
+    /// step is not marked complete (the run ends with the file named), and the next run redoes both
+    /// steps, since the first step's products came from the old contents.
+    /// </summary>
+    [Fact]
+    public void An_input_changed_during_the_run_leaves_later_steps_unmarked_and_is_redone()
+    {
+        using var dir = new TempFolder();
+        string input = SampleFiles.Record(dir.File("in.nc"), frames: 60, stepHours: 24);
+        File.WriteAllText(dir.File("recipe.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"products\"\n\n[stats]\n\n[climatology]\nby = \"month\"\n");
+        void Rewrite(string line)
+        {
+            if (line.StartsWith("stats: done", StringComparison.Ordinal)) SampleFiles.Record(input, frames: 60, stepHours: 24, firstHour: 6);
+        }
+        var e = Assert.Throws<BadInputException>(() => GridDrift.Pipeline.RecipeRunner.Run(dir.File("recipe.toml"), Rewrite));
+        Assert.Equal(input, e.File);
+        Assert.Contains("changed while the run read it", e.Message);
+        Assert.False(File.Exists(dir.File("products/.griddrift-run/climatology.json")), "the climatology step is not marked complete");
+        var rerun = CliRun.Run("run", dir.File("recipe.toml"));
+        Assert.True(rerun.ExitCode == 0, rerun.Stderr);
+        Assert.Contains("stats: done", rerun.Stderr);
+        Assert.Contains("climatology: done", rerun.Stderr);
     }
 
     [Fact]
