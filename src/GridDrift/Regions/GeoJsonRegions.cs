@@ -66,7 +66,7 @@ internal static class GeoJsonRegions
         }
     }
 
-    /// <summary>Positions are finite longitudes within ±720 and latitudes within ±90, every polygon encloses some area, and the file stays within <see cref="MaxPositions"/>.</summary>
+    /// <summary>Positions are finite longitudes within ±720 and latitudes within ±90, every polygon encloses some area, no ring crosses itself, and the file stays within <see cref="MaxPositions"/>.</summary>
     static void CheckPositions(string path, string name, IReadOnlyList<IReadOnlyList<(double Lon, double Lat)[]>> polygons, ref long positions)
     {
         foreach (var polygon in polygons)
@@ -78,6 +78,8 @@ internal static class GeoJsonRegions
                 foreach (var (lon, lat) in ring)
                     if (!double.IsFinite(lon) || !double.IsFinite(lat) || Math.Abs(lat) > 90 || Math.Abs(lon) > 720)
                         throw new BadInputException(path, null, $"region '{name}': position ({lon}, {lat}) is not a longitude and latitude in degrees");
+                if (RingCrossings.Find(ring) is var (first, second))
+                    throw new BadInputException(path, null, $"region '{name}': a ring crosses itself (the edges from ({first.Lon}, {first.Lat}) and from ({second.Lon}, {second.Lat}) meet)");
             }
             var outer = polygon[0];
             if (GridDrift.Grids.Sphere.PolygonArea(outer.Select(p => p.Lat).ToArray(), outer.Select(p => p.Lon).ToArray(), 1) <= 0)
