@@ -114,4 +114,32 @@ public class ClassicLayoutCheckTests
         }
         Assert.InRange(read, 1, paths.Count - 1); // both outcomes occur
     }
+
+    /// <summary>
+    /// Names in a classic header are UTF-8 (NetCDF Classic Format Specification); 0xFF never occurs
+    /// in UTF-8 (RFC 3629 §1). A variable name and an attribute name with that byte are refused, as
+    /// python netCDF4 refuses both files (the witness).
+    /// </summary>
+    [InteropFact(Needs.PythonNetcdf)]
+    public void A_name_that_is_not_UTF8_is_refused_as_netCDF4_refuses_it()
+    {
+        using var dir = new TempFolder();
+        var (bytes, _, _) = File1(dir);
+        var paths = new List<string>();
+        foreach (var name in new[] { "tcwv"u8.ToArray(), "units"u8.ToArray() })
+        {
+            var copy = (byte[])bytes.Clone();
+            int at = copy.AsSpan(0, 1024).IndexOf(name);
+            copy[at + 1] = 0xFF;
+            paths.Add(dir.File($"bad_{System.Text.Encoding.ASCII.GetString(name)}.nc"));
+            File.WriteAllBytes(paths[^1], copy);
+        }
+        var witness = NetcdfWitness.Digests(dir.File("list.txt"), paths);
+        foreach (var path in paths)
+        {
+            Assert.True(NetcdfWitness.Refuses(witness[path]), $"python netCDF4 reads {path}");
+            var e = Assert.Throws<BadInputException>(() => DatasetFiles.Open(path).Dispose());
+            Assert.Contains("is not valid UTF-8", e.Message);
+        }
+    }
 }

@@ -77,6 +77,8 @@ internal sealed class HeaderCursor
         if (pad > 0) Bytes(pad);
     }
 
+    static readonly UTF8Encoding StrictUtf8 = new(encoderShouldEmitUTF8Identifier: false, throwOnInvalidBytes: true);
+
     public string Name(int countWidth, string what)
     {
         long length = Count(countWidth, $"{what} name length");
@@ -85,7 +87,11 @@ internal sealed class HeaderCursor
         var bytes = Bytes(length);
         int nul = bytes.IndexOf((byte)0);
         // netCDF-C reads names as C strings: bytes after a NUL inside the counted length are padding.
-        var text = Encoding.UTF8.GetString(nul >= 0 ? bytes[..nul] : bytes);
+        var name = nul >= 0 ? bytes[..nul] : bytes;
+        string text;
+        // names are UTF-8 (NetCDF Classic Format Specification); a name that is not cannot be looked up as written
+        try { text = StrictUtf8.GetString(name); }
+        catch (DecoderFallbackException) { throw Fault($"{what} name at byte {_position - length} is not valid UTF-8"); }
         SkipPadding(length);
         return text;
     }
