@@ -11,6 +11,9 @@ namespace GridDrift.Demo;
 /// </summary>
 internal static class DemoRun
 {
+    /// <summary>Where the demo writes its own recipe when recipe.toml holds the user's edits.</summary>
+    public const string DemoRecipeName = "recipe.demo.toml";
+
     public static (string Recipe, IReadOnlyList<StepOutcome> Steps) Run(string folder, string size, Action<string>? log = null)
     {
         var scenario = DemoScenario.For(size);
@@ -27,8 +30,17 @@ internal static class DemoRun
             log?.Invoke($"record written in {clock.Elapsed.TotalSeconds:0.0} s");
         }
         string recipe = Path.Combine(folder, "recipe.toml");
-        File.WriteAllText(recipe, Recipe(scenario));
-        return (recipe, RecipeRunner.Run(recipe, log, "griddrift demo"));
+        string fresh = Recipe(scenario);
+        if (File.Exists(recipe) && File.ReadAllText(recipe) != fresh)
+        {
+            // the README invites edits to recipe.toml: a rerun of the demo must never destroy them
+            string beside = Path.Combine(folder, DemoRecipeName);
+            GridDrift.Outputs.AtomicFile.WriteAllText(beside, fresh);
+            log?.Invoke($"{recipe} differs from the demo's and is kept as it is; the demo's own recipe is written to {beside} and run now");
+            recipe = beside;
+        }
+        else GridDrift.Outputs.AtomicFile.WriteAllText(recipe, fresh);
+        return (recipe, RecipeRunner.Run(recipe, log, "griddrift run"));
     }
 
     static string Recipe(DemoScenario s)
