@@ -58,5 +58,9 @@ internal static class CommonOptions
     public static Option<bool> Quiet() => new("--quiet") { Description = "no progress or summary on stderr" };
 
     /// <summary>The command line as typed, for provenance.</summary>
-    public static string CommandLine(string name, string[] args) => "griddrift " + string.Join(' ', args.Select(a => a.Contains(' ') ? $"'{a}'" : a));
+    /// <summary>The command as typed, quoted for a POSIX shell, so a product's <c>command</c> attribute runs as written.</summary>
+    public static string CommandLine(string name, string[] args) => SelfName + " " + string.Join(' ', args.Select(GridDrift.Pipeline.Cluster.BatchStage.Quote));
+
+    /// <summary>The name the tool is installed under (docs/install.md).</summary>
+    public const string SelfName = "griddrift";
 }

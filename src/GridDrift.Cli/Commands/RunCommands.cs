@@ -131,7 +131,7 @@ public static class RunCommands
             if (!q)
             {
                 err.WriteLine($"griddrift demo: finished in {clock.Elapsed.TotalSeconds:0} s; report {string.Join(" and ", report?.Outputs ?? [])}");
-                err.WriteLine($"griddrift demo: edit {recipe} and rerun it with: griddrift run {recipe}");
+                err.WriteLine($"griddrift demo: edit {recipe} and rerun it with: {CommonOptions.SelfName} run {recipe}");
                 err.WriteLine("griddrift demo: " + CliApp.Caution);
             }
             return ExitCodes.Success;

@@ -73,7 +73,8 @@ internal static class RecipeRunner
         foreach (var registered in Steps.Where(s => recipe.Has(s.Name)))
         {
             string step = registered.Name;
-            string how = $"{command} {recipePath} [{step}]";
+            // runnable as written: the shell reads the step's name as a comment
+            string how = $"{command} {Cluster.BatchStage.Quote(recipePath)}  # step {step}";
             if (shard is not null && !Sharded.Contains(step))
             {
                 log?.Invoke($"{step}: needs the whole record; it runs after griddrift gather");

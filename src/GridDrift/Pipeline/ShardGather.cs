@@ -72,7 +72,7 @@ internal static class ShardGather
                 continue;
             }
             var clock = System.Diagnostics.Stopwatch.StartNew();
-            string how = $"{command} [{step}]";
+            string how = $"{command}  # step {step}";
             string? table = outputs.Skip(1).FirstOrDefault(o => o.EndsWith(".parquet", StringComparison.Ordinal));
             JsonObject summary;
             if (step == "climatology")
