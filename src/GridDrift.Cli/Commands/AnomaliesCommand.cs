@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Operators.Climatology;
 using GridDrift.Frames;
@@ -47,7 +48,7 @@ public static class AnomaliesCommand
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift anomalies: warning: {w}");
             if (!parse.GetValue(quiet))
-                err.WriteLine($"griddrift anomalies: {summary.Frames} frames written to {options.Output}" +
+                err.WriteLine($"griddrift anomalies: {Counted.Of(summary.Frames, "frame")} written to {options.Output}" +
                     (summary.Series is null ? "" : $"; region means to {summary.Series}") + (options.Table is null ? "" : $" and {options.Table}"));
             return ExitCodes.Success;
         });

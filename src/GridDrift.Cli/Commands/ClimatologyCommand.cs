@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Operators.Climatology;
 using GridDrift.Frames;
@@ -38,7 +39,7 @@ public static class ClimatologyCommand
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift climatology: warning: {w}");
             if (!parse.GetValue(quiet))
-                err.WriteLine($"griddrift climatology: {summary.FramesUsed} frames of {summary.Base.ToIsoString()} into {summary.Slots} slots, written to {options.Output}");
+                err.WriteLine($"griddrift climatology: {Counted.Of(summary.FramesUsed, "frame")} of {summary.Base.ToIsoString()} into {Counted.Of(summary.Slots, "slot")}, written to {options.Output}");
             return ExitCodes.Success;
         });
         return command;

@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
@@ -34,7 +35,7 @@ public static class DeriveCommand
                 parse.GetValue(temperature), parse.GetValue(pressure), parse.GetValue(units));
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => DeriveStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
-                parse.InvocationConfiguration.Error.WriteLine($"griddrift derive: {summary.Frames} frames of {summary.Variable} from {summary.Levels} levels written to {options.Output}");
+                parse.InvocationConfiguration.Error.WriteLine($"griddrift derive: {Counted.Of(summary.Frames, "frame")} of {summary.Variable} from {Counted.Of(summary.Levels, "level")} written to {options.Output}");
             return ExitCodes.Success;
         });
         return command;

@@ -1,3 +1,5 @@
+using GridDrift.Grids;
+using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Pipeline;
 using GridDrift.Workflows;
@@ -30,7 +32,7 @@ public static class RegionsCommand
                 parse.GetValue(variable), parse.GetValue(radius), null, CommonOptions.CommandLine("regions", commandLine));
             var (g, mask) = CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => RegionsStep.Run(options with { Output = path, Format = variant }));
             if (!parse.GetValue(quiet))
-                parse.InvocationConfiguration.Error.WriteLine($"griddrift regions: {mask.Count} regions on a {g.Rows} × {g.Columns} {g.Kind} grid, {mask.EntryCount} cell entries, written to {options.Output}");
+                parse.InvocationConfiguration.Error.WriteLine($"griddrift regions: {Counted.Of(mask.Count, "region")} on a {g.Rows} × {g.Columns} {g.Kind.Words()} grid, {Counted.Of(mask.EntryCount, "cell entry", "cell entries")}, written to {options.Output}");
             return ExitCodes.Success;
         });
         return command;

@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
@@ -35,7 +36,7 @@ public static class RegridCommand
                 parse.GetValue(output)!, null, CommonOptions.CommandLine("regrid", commandLine), parse.GetValue(calendar), parse.GetValue(resample), parse.GetValue(weights)) with { Units = parse.GetValue(units) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => RegridStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
-                parse.InvocationConfiguration.Error.WriteLine($"griddrift regrid: {summary.Frames} frames onto {summary.Target.Rows} × {summary.Target.Columns} ({summary.Weights.Column.Length} weights{(summary.WeightsReused ? ", read from " + options.Weights : "")}), {summary.Written} written to {options.Output}" + (summary.Dropped > 0 ? $"; {summary.Dropped} frames dropped (dates the target calendar lacks)" : ""));
+                parse.InvocationConfiguration.Error.WriteLine($"griddrift regrid: {Counted.Of(summary.Frames, "frame")} onto {summary.Target.Rows} × {summary.Target.Columns} ({Counted.Of(summary.Weights.Column.Length, "weight")}{(summary.WeightsReused ? ", read from " + options.Weights : "")}), {summary.Written} written to {options.Output}" + (summary.Dropped > 0 ? $"; {Counted.Of(summary.Dropped, "frame")} dropped (dates the target calendar lacks)" : ""));
             return ExitCodes.Success;
         });
         return command;

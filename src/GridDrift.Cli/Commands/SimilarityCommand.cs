@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
@@ -65,10 +66,10 @@ public static class SimilarityCommand
                 error.WriteLine($"griddrift similarity: warning: {summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High} ({summary.Range.Source}); SSIM's constants assume they do not");
             if (!parse.GetValue(quiet))
             {
-                error.WriteLine($"griddrift similarity: {summary.Pairs} pairs × {summary.Regions} regions written to {options.Output}" +
+                error.WriteLine($"griddrift similarity: {Counted.Of(summary.Pairs, "pair")} × {Counted.Of(summary.Regions, "region")} written to {options.Output}" +
                                 (options.Table is null ? "" : $" and {options.Table}") + $"; data range {summary.Range.Low}:{summary.Range.High} ({summary.Range.Source})");
                 if (summary.Skipped.Count > 0)
-                    error.WriteLine($"griddrift similarity: {summary.Skipped.Count} pairs across gaps skipped (use --across-gaps to compare them): " +
+                    error.WriteLine($"griddrift similarity: {Counted.Of(summary.Skipped.Count, "pair")} across gaps skipped (use --across-gaps to compare them): " +
                                     string.Join(", ", summary.Skipped.Take(5).Select(s => $"{s.Earlier.ToIsoString()}/{s.Later.ToIsoString()}")) + (summary.Skipped.Count > 5 ? ", …" : ""));
             }
             return ExitCodes.Success;

@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Frames;
 using GridDrift.Pipeline;
@@ -47,9 +48,9 @@ public static class StatsCommand
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => StatsStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine(
-                    $"griddrift stats: {summary.Frames} frames × {summary.Regions} regions written to {options.Output}" +
+                    $"griddrift stats: {Counted.Of(summary.Frames, "frame")} × {Counted.Of(summary.Regions, "region")} written to {options.Output}" +
                     (options.Table is null ? "" : $" and {options.Table}") +
-                    $"; {summary.BelowMinValid} region-frames below --min-valid {options.MinValid}, {summary.NoData} with no data (set to NaN)");
+                    $"; {Counted.Of(summary.BelowMinValid, "region-frame")} below --min-valid {options.MinValid}, {summary.NoData} with no data (set to NaN)");
             return ExitCodes.Success;
         });
         return command;

@@ -15,3 +15,17 @@ public enum GridKind
     /// <summary>Projection x/y with some other grid_mapping.</summary>
     Projected,
 }
+
+/// <summary>Grid kinds in the words `describe` uses, for every message a user reads.</summary>
+public static class GridKindWords
+{
+    public static string Words(this GridKind kind) => kind switch
+    {
+        GridKind.RegularLatLon => "regular latitude-longitude",
+        GridKind.IrregularLatLon => "latitude-longitude with uneven latitudes (e.g. Gaussian)",
+        GridKind.Curvilinear => "curvilinear (2-D latitude/longitude)",
+        GridKind.Geostationary => "geostationary (scan angles)",
+        GridKind.Projected => "projected x/y",
+        _ => "none",
+    };
+}

@@ -44,15 +44,7 @@ internal sealed record HorizontalGrid(GridKind Kind, int LatitudeCount, int Long
 
     public string Describe()
     {
-        string kind = Kind switch
-        {
-            GridKind.RegularLatLon => "regular latitude-longitude",
-            GridKind.IrregularLatLon => "latitude-longitude with uneven latitudes (e.g. Gaussian)",
-            GridKind.Curvilinear => "curvilinear (2-D latitude/longitude)",
-            GridKind.Geostationary => "geostationary (scan angles)",
-            GridKind.Projected => "projected x/y",
-            _ => "none",
-        };
+        string kind = Kind.Words();
         var parts = new List<string> { $"{kind}, {LatitudeCount} × {LongitudeCount}" };
         if (LatitudeStep is { } a && LongitudeStep is { } b)
             parts.Add(Kind == GridKind.RegularLatLon ? $"{a:0.####}° × {b:0.####}°" : $"mean {a:0.####}° × {b:0.####}°");

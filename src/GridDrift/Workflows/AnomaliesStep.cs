@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using GridDrift.Operators.Climatology;
 using GridDrift.Conventions.Coordinates;
 using GridDrift.Conventions.Time;
@@ -112,7 +113,7 @@ internal static class AnomaliesStep
             var op = new AnomalyOperator(o.Kind, clim.Scheme, clim.Mean, clim.Std, clim.Cells, regions, o.MinValid, source.Times, fields, series);
             FrameEngine.Run(source, Enumerable.Range(slice.First, slice.Count).ToArray(), op, new EngineSettings(o.Workers, progress));
             int noSlot = op.FramesWithoutSlot;
-            if (noSlot > 0) warnings.Add($"{noSlot} frames fall in no slot of the climatology (a time of day it does not hold): their anomalies are missing");
+            if (noSlot > 0) warnings.Add($"{Counted.Of(noSlot, "frame")} {(noSlot == 1 ? "falls" : "fall")} in no slot of the climatology (a time of day it does not hold): their anomalies are missing");
             w?.Commit();
             series?.Complete();
             return new AnomaliesSummary(slice.Count, noSlot, seriesPath, warnings);

@@ -1,3 +1,4 @@
+using GridDrift.Outputs.Description;
 using System.Globalization;
 using GridDrift.Operators.Climatology;
 using GridDrift.Conventions.Time;
@@ -68,7 +69,7 @@ internal static class ClimatologyStep
         if (o.Kind == ClimatologyKind.HourByMonth && source.Step is not { IsCalendarMonths: false, Micros: > 0 and < CfTime.MicrosPerDay })
             throw new BadInputException(source.Files[0], o.Variable, $"hour-by-month needs sub-daily data; the record's step is {source.Step?.Describe() ?? "unknown"}");
         if (basePeriod.Years < NormalYears - 1e-9)
-            warnings.Add($"the base period {basePeriod.ToIsoString()} covers {basePeriod.Years:0.##} years, fewer than the {NormalYears:0} years of a " +
+            warnings.Add($"the base period {basePeriod.ToIsoString()} covers {Counted.Of(basePeriod.Years, "0.##", "year")}, fewer than the {NormalYears:0} years of a " +
                 "climatological standard normal (WMO-No. 1203, Guidelines on the Calculation of Climate Normals, 2017): treat it as a provisional baseline");
         var remembered = new Dictionary<string, string>();
         var provenance = wholeRecord ? Task.Run(() => Provenance.For(o.Command, source.Files)) : null;
@@ -114,7 +115,7 @@ internal static class ClimatologyStep
         var fields = ClimatologyFields.From(state, smoothing);
         var slots = SlotPeriods.From(scheme, usedTimes, basePeriod, source.Step);
         int empty = Enumerable.Range(0, scheme.SlotCount).Count(s => !HasData(state, s));
-        if (empty > 0) warnings.Add($"{empty} of {scheme.SlotCount} slots have no sample in the base period: their values are missing");
+        if (empty > 0) warnings.Add($"{empty} of {Counted.Of(scheme.SlotCount, "slot")} have no sample in the base period: their values are missing");
         var template = FieldTemplate.From(source);
         var calendarAttribute = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
         var extra = new Dictionary<string, string>

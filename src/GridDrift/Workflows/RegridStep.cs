@@ -76,7 +76,7 @@ internal static class RegridStep
         {
             ["title"] = $"{o.Variable} remapped to {o.To}",
             ["remap_method"] = weights.Method + "; missing source cells left out and the weights renormalised",
-            ["remap_source_grid"] = $"{grid.Rows} x {grid.Columns} ({grid.Kind})",
+            ["remap_source_grid"] = $"{grid.Rows} x {grid.Columns} ({grid.Kind.Words()})",
             ["calendar_alignment"] = toCalendar == source.Calendar ? "none" : $"{source.Calendar.CfName()} -> {toCalendar.CfName()} by date (year, month, day and time of day kept; dates the target calendar lacks dropped)",
             ["resampling"] = resampling == Resampling.None ? "none" : $"{(resampling == Resampling.Hours ? $"{periodHours}-hourly" : resampling.ToString().ToLowerInvariant())} means of the frames in each period",
         });

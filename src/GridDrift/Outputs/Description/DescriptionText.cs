@@ -40,7 +40,7 @@ internal static class DescriptionText
     public static string Render(RecordDescription r)
     {
         var s = new StringBuilder();
-        Line(s, $"record of '{r.Variable}' over {r.Files.Count} files (in time order)");
+        Line(s, $"record of '{r.Variable}' over {Counted.Of(r.Files.Count, "file")} (in time order)");
         foreach (var file in r.Files) Line(s, $"    {file}");
         AppendTime(s, r.Time);
         return s.ToString();
@@ -49,7 +49,7 @@ internal static class DescriptionText
     static void AppendTime(StringBuilder s, TimeDescription t)
     {
         string step = t.StepText is null ? "" : $", step {t.StepText} ({t.Step})";
-        Line(s, $"  time        {t.First} … {t.Last}, {t.Count} steps{step}");
+        Line(s, $"  time        {t.First} … {t.Last}, {Counted.Of(t.Count, "step")}{step}");
         Line(s, $"              calendar {t.Calendar}, units \"{t.Units}\"");
         Line(s, $"  gaps        " + (t.Gaps.Count == 0 ? "none" : $"{t.Gaps.Count}"));
         foreach (var gap in t.Gaps.Take(20)) Line(s, $"              {gap}");
