@@ -27,13 +27,15 @@ public static class CliApp
         root.Subcommands.Add(RunCommands.Gather(args ?? []));
         root.Subcommands.Add(RunCommands.Submit(args ?? []));
         root.Subcommands.Add(RunCommands.Demo(args ?? []));
+        root.Subcommands.Add(CompletionCommand.Build());
         return root;
     }
 
     public static int Run(string[] args, TextWriter output, TextWriter error)
     {
         var parse = BuildRoot(args).Parse(args);
-        bool asksForHelpOrVersion = args.Any(a => a is "--help" or "-h" or "-?" or "--version");
+        // [suggest:N] is System.CommandLine's completion directive, which the shell scripts of `griddrift completion` call
+        bool asksForHelpOrVersion = args.Any(a => a is "--help" or "-h" or "-?" or "--version") || args is [['[', 's', 'u', 'g', ..], ..];
         if (!asksForHelpOrVersion && UsageErrors.Of(parse) is { Count: > 0 } usage)
         {
             string name = parse.CommandResult.Command is RootCommand ? "griddrift" : "griddrift " + parse.CommandResult.Command.Name;

@@ -14,7 +14,11 @@ internal static class OptionChecks
 
     public static Option<int> Between(this Option<int> option, int low, int high) => option.Checked(KeyChecks.Between(low, high));
 
-    public static Option<string> OneOf(this Option<string> option, params string[] words) => option.Checked<string>(v => KeyChecks.OneOf(words)(v));
+    public static Option<string> OneOf(this Option<string> option, params string[] words)
+    {
+        option.CompletionSources.Add(words); // tab completion offers the words
+        return option.Checked<string>(v => KeyChecks.OneOf(words)(v));
+    }
 
     /// <summary>A single value that <paramref name="parse"/> accepts (it throws FormatException with the reason otherwise).</summary>
     public static Option<T> Accepts<T>(this Option<T> option, Action<T> parse) => option.Checked<T>(v => { if (v is not null) parse(v); });
