@@ -1,3 +1,4 @@
+using System.Text.Json.Nodes;
 using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Operators.Climatology;
@@ -28,13 +29,15 @@ public static class AnomaliesCommand
         var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
+        var json = CommandJson.Option();
         var command = new Command("anomalies", "Anomalies of every frame from its climatology slot: absolute, relative or standardized, as fields and region series.\n\n" +
             "Example:\n  griddrift anomalies cf-samples/tcwv_synthetic_2031.nc --var tcwv --climatology clim.nc --out anom.nc --regions global bands:30 --table anom.parquet")
         {
-            files, variable, climatology, kind, output, regions, table, series, minValid, format, deflate, shuffle, units, quiet,
+            files, variable, climatology, kind, output, regions, table, series, minValid, format, deflate, shuffle, units, quiet, json,
         };
         command.SetAction(parse =>
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             var anomalyKind = Anomaly.Parse(parse.GetValue(kind)!)
                 ?? throw new BadInputException(null, null, $"--kind {parse.GetValue(kind)}: choose absolute, relative or standardized");
             var regionSpecs = parse.GetValue(regions) ?? [];
@@ -50,6 +53,10 @@ public static class AnomaliesCommand
             if (!parse.GetValue(quiet))
                 err.WriteLine($"griddrift anomalies: {Counted.Of(summary.Frames, "frame")} written to {options.Output}" +
                     (summary.Series is null ? "" : $"; region means to {summary.Series}") + (options.Table is null ? "" : $" and {options.Table}"));
+            CommandJson.Print(parse, json, CommandJson.Summary("anomalies", clock, [options.Output, summary.Series, options.Table], new JsonObject
+            {
+                ["frames"] = summary.Frames, ["frames_without_slot"] = summary.FramesWithoutSlot,
+            }, summary.Warnings));
             return ExitCodes.Success;
         });
         return command;

@@ -1,3 +1,4 @@
+using System.Text.Json.Nodes;
 using System.CommandLine;
 using GridDrift.Pipeline;
 using GridDrift.Workflows;
@@ -16,7 +17,7 @@ public static class AttributeCommand
         var periods = KeyOptions.For(AttributeKeys.Periods);
         var profiles = KeyOptions.For(AttributeKeys.Profiles);
         var output = new Option<string>("--out") { Description = "importance table (Parquet); OUT_shapley, OUT_ranks and OUT_profiles are written beside it", Required = true };
-        var json = new Option<bool>("--json") { Description = "print a JSON summary on stdout" };
+        var json = CommandJson.Option();
         var plot = KeyOptions.For(CommonKeys.Plot);
         var quiet = CommonOptions.Quiet();
         var command = new Command("attribute", "Which regions drive a target series: ridge model, permutation importance, Shapley values, rank changes between periods.\n\n" +
@@ -26,9 +27,12 @@ public static class AttributeCommand
         };
         command.SetAction(parse =>
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             var summary = AttributeStep.Run(new AttributeOptions(parse.GetValue(input)!, parse.GetValue(target)!, parse.GetValue(output)!,
                 parse.GetValue(quantity), parse.GetValue(periods), parse.GetValue(profiles), CommonOptions.CommandLine("attribute", commandLine), parse.GetValue(plot)));
-            if (parse.GetValue(json)) parse.InvocationConfiguration.Output.WriteLine(EventsStep.Serialize(summary.Json));
+            // the summary's keys join the attribution's own JSON (ranking, fit), which stays as it was
+            CommandJson.Print(parse, json, CommandJson.Summary("attribute", clock, summary.Tables,
+                new JsonObject { ["regions"] = summary.Ranking.Count, ["r2"] = summary.R2 }, into: summary.Json));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift attribute: R² {summary.R2:0.000}; leading regions " +
                     string.Join(", ", summary.Ranking.Take(3).Select(r => r.Region)) + "; tables " + string.Join(", ", summary.Tables));

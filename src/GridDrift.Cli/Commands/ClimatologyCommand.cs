@@ -1,3 +1,4 @@
+using System.Text.Json.Nodes;
 using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Operators.Climatology;
@@ -24,13 +25,15 @@ public static class ClimatologyCommand
         var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
+        var json = CommandJson.Option();
         var command = new Command("climatology", "Climatological mean, standard deviation and sample count per cell and slot (CF Conventions §7.4).\n\n" +
             "Example:\n  griddrift climatology cf-samples/tcwv_synthetic_2031.nc --var tcwv --by month --out clim.nc")
         {
-            files, variable, by, basePeriod, smooth, output, format, deflate, shuffle, units, quiet,
+            files, variable, by, basePeriod, smooth, output, format, deflate, shuffle, units, quiet, json,
         };
         command.SetAction(parse =>
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             var kind = ClimatologyKinds.Parse(parse.GetValue(by)!)
                 ?? throw new BadInputException(null, null, $"--by {parse.GetValue(by)}: choose month, day-of-year or hour-by-month");
             var options = new ClimatologyOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, kind, parse.GetValue(output)!,
@@ -40,6 +43,10 @@ public static class ClimatologyCommand
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift climatology: warning: {w}");
             if (!parse.GetValue(quiet))
                 err.WriteLine($"griddrift climatology: {Counted.Of(summary.FramesUsed, "frame")} of {summary.Base.ToIsoString()} into {Counted.Of(summary.Slots, "slot")}, written to {options.Output}");
+            CommandJson.Print(parse, json, CommandJson.Summary("climatology", clock, [options.Output], new JsonObject
+            {
+                ["frames"] = summary.FramesUsed, ["slots"] = summary.Slots, ["empty_slots"] = summary.EmptySlots, ["base"] = summary.Base.ToIsoString(),
+            }, summary.Warnings));
             return ExitCodes.Success;
         });
         return command;

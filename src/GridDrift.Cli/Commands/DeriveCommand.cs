@@ -1,3 +1,4 @@
+using System.Text.Json.Nodes;
 using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Frames;
@@ -23,19 +24,25 @@ public static class DeriveCommand
         var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
+        var json = CommandJson.Option();
         var command = new Command("derive", "Derive a quantity from model output: total column water vapour from specific humidity on pressure levels, relative humidity, or specific humidity from the dew point.\n\n" +
             "Example:\n  griddrift derive column-water-vapour cf-samples/q_levels_noleap_2031.nc --out tcwv.nc")
         {
-            quantity, files, variable, temperature, pressure, surface, output, format, deflate, shuffle, units, quiet,
+            quantity, files, variable, temperature, pressure, surface, output, format, deflate, shuffle, units, quiet, json,
         };
         command.SetAction(parse =>
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             var options = new DeriveOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(quantity)!, parse.GetValue(output)!, parse.GetValue(variable),
                 parse.GetValue(surface), null, CommonOptions.CommandLine("derive", commandLine),
                 parse.GetValue(temperature), parse.GetValue(pressure), parse.GetValue(units));
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => DeriveStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift derive: {Counted.Of(summary.Frames, "frame")} of {summary.Variable} from {Counted.Of(summary.Levels, "level")} written to {options.Output}");
+            CommandJson.Print(parse, json, CommandJson.Summary("derive", clock, [options.Output], new JsonObject
+            {
+                ["frames"] = summary.Frames, ["levels"] = summary.Levels, ["variable"] = summary.Variable,
+            }));
             return ExitCodes.Success;
         });
         return command;

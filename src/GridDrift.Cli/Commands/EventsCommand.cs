@@ -1,3 +1,4 @@
+using System.Text.Json.Nodes;
 using System.CommandLine;
 using System.Globalization;
 using GridDrift.Analysis;
@@ -22,7 +23,7 @@ public static class EventsCommand
         var consensus = KeyOptions.For(EventsKeys.Consensus);
         var minSegment = KeyOptions.For(EventsKeys.MinSegment);
         var output = new Option<string>("--out") { Description = "flags table (Parquet); OUT_counts, OUT_trends and OUT_changepoints are written beside it", Required = true };
-        var json = new Option<bool>("--json") { Description = "print a JSON summary (change points and trends) on stdout" };
+        var json = CommandJson.Option();
         var plot = KeyOptions.For(CommonKeys.Plot);
         var quiet = CommonOptions.Quiet();
         var command = new Command("events", "Outlier events, their counts in a moving window and per year, Mann–Kendall/Sen trends and Pettitt/PELT change points of series.\n\n" +
@@ -32,11 +33,14 @@ public static class EventsCommand
         };
         command.SetAction(parse =>
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             var analysis = EventsAnalysis.From(parse.GetValue(detect)!, parse.GetValue(on)!, parse.GetValue(window)!, parse.GetValue(changepoints)!,
                 parse.GetValue(consensus), parse.GetValue(minSegment));
             var summary = EventsStep.Run(new EventsOptions(parse.GetValue(input)!, parse.GetValue(output)!, parse.GetValue(quantity),
                 parse.GetValue(region), analysis, CommonOptions.CommandLine("events", commandLine), parse.GetValue(plot)));
-            if (parse.GetValue(json)) parse.InvocationConfiguration.Output.WriteLine(EventsStep.Serialize(summary.Json));
+            // the summary's keys join the analysis's own JSON (change points, trends), which stays as it was
+            CommandJson.Print(parse, json, CommandJson.Summary("events", clock, [summary.FlagsTable, summary.CountsTable, summary.TrendsTable, summary.ChangePointsTable],
+                new JsonObject { ["series"] = summary.Series, ["events"] = summary.Events, ["change_points"] = summary.ChangePoints }, into: summary.Json));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift events: {summary.Series} series, {summary.Events} events, {summary.ChangePoints} change points; " +
                     $"tables {summary.FlagsTable}, {summary.CountsTable}, {summary.TrendsTable}, {summary.ChangePointsTable}");

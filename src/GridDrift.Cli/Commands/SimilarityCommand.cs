@@ -1,3 +1,4 @@
+using System.Text.Json.Nodes;
 using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Frames;
@@ -32,14 +33,16 @@ public static class SimilarityCommand
         var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
+        var json = CommandJson.Option();
         var command = new Command("similarity", "Frame-to-frame structural similarity (SSIM, VIF), correlation, RMS difference and mean absolute change per region.\n\n" +
             "Example:\n  griddrift similarity cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --metric ssim,vif,corr,rmsd,mean-abs-change --out sim.nc --table sim.parquet\n" +
             "  griddrift similarity --reference obs.nc --candidate model_on_obs_grid.nc --var tcwv --regions global --metric bias,rmsd,corr,ssim --out compare.nc")
         {
-            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, deflate, shuffle, units, quiet,
+            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, deflate, shuffle, units, quiet, json,
         };
         command.SetAction(parse =>
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             SimilarityMetric[] metrics;
             try
             {
@@ -72,6 +75,11 @@ public static class SimilarityCommand
                     error.WriteLine($"griddrift similarity: {Counted.Of(summary.Skipped.Count, "pair")} across gaps skipped (use --across-gaps to compare them): " +
                                     string.Join(", ", summary.Skipped.Take(5).Select(s => $"{s.Earlier.ToIsoString()}/{s.Later.ToIsoString()}")) + (summary.Skipped.Count > 5 ? ", …" : ""));
             }
+            CommandJson.Print(parse, json, CommandJson.Summary("similarity", clock, [options.Output, options.Table], new JsonObject
+            {
+                ["pairs"] = summary.Pairs, ["regions"] = summary.Regions, ["pairs_skipped_across_gaps"] = summary.Skipped.Count,
+                ["values_outside_range"] = summary.CellsOutsideRange,
+            }, summary.CellsOutsideRange > 0 ? [$"{summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High}"] : []));
             return ExitCodes.Success;
         });
         return command;

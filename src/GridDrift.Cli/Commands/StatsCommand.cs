@@ -1,3 +1,4 @@
+using System.Text.Json.Nodes;
 using GridDrift.Outputs.Description;
 using System.CommandLine;
 using GridDrift.Frames;
@@ -26,13 +27,15 @@ public static class StatsCommand
         var shuffle = CommonOptions.Shuffle();
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
+        var json = CommandJson.Option();
         var command = new Command("stats", "Area-weighted mean, standard deviation, minimum, maximum, quantiles and valid fraction per frame and region.\n\n" +
             "Example:\n  griddrift stats cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --out s.nc --table s.parquet")
         {
-            files, variable, regions, stat, minValid, output, table, radius, format, deflate, shuffle, units, quiet,
+            files, variable, regions, stat, minValid, output, table, radius, format, deflate, shuffle, units, quiet, json,
         };
         command.SetAction(parse =>
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             RegionStatistic[] statistics;
             try
             {
@@ -51,6 +54,11 @@ public static class StatsCommand
                     $"griddrift stats: {Counted.Of(summary.Frames, "frame")} × {Counted.Of(summary.Regions, "region")} written to {options.Output}" +
                     (options.Table is null ? "" : $" and {options.Table}") +
                     $"; {Counted.Of(summary.BelowMinValid, "region-frame")} below --min-valid {options.MinValid}, {summary.NoData} with no data (set to NaN)");
+            CommandJson.Print(parse, json, CommandJson.Summary("stats", clock, [options.Output, options.Table], new JsonObject
+            {
+                ["frames"] = summary.Frames, ["regions"] = summary.Regions, ["values"] = summary.Values,
+                ["below_min_valid"] = summary.BelowMinValid, ["no_data"] = summary.NoData,
+            }));
             return ExitCodes.Success;
         });
         return command;

@@ -54,7 +54,7 @@ internal static class RunReport
             doc.Rows(["region", "Sen slope per year", "95 % interval", "MK z", "MK p"], trends.Select(t => new[]
             {
                 (string)t["region"]!, Format(t["sen_slope"], 365.2425), $"{Format(t["sen_slope_lo"], 365.2425)} … {Format(t["sen_slope_hi"], 365.2425)}",
-                Format(t["mk_z"]), Format(t["mk_p"]),
+                Format(t["mk_z_hamed_rao"]), Format(t["mk_p_hamed_rao"]),
             }));
             summary["changed_regions"] = new JsonArray(byRegion.Where(g => g.Any(c => (string)c["method"]! == "pelt-mean")).Select(g => (JsonNode)g.Key).ToArray());
             // the size of each region's main (Pettitt) change in units of the series' short-term noise

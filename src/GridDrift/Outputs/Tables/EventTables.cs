@@ -60,8 +60,9 @@ internal static class EventTables
             {
                 ["region"] = r.Region, ["quantity"] = a.Quantity,
                 ["sen_slope"] = Number(found.Slope.Slope), ["sen_slope_lo"] = Number(found.Slope.Low), ["sen_slope_hi"] = Number(found.Slope.High),
-                ["mk_z"] = Number(found.Trend.ZCorrected), ["mk_p"] = Number(found.Trend.PCorrected),
-                ["mk_z_uncorrected"] = Number(found.Trend.Z), ["mk_p_uncorrected"] = Number(found.Trend.P),
+                // the same names mean the same values as in the _trends table: mk_z/mk_p uncorrected, *_hamed_rao corrected
+                ["mk_z"] = Number(found.Trend.Z), ["mk_p"] = Number(found.Trend.P),
+                ["mk_z_hamed_rao"] = Number(found.Trend.ZCorrected), ["mk_p_hamed_rao"] = Number(found.Trend.PCorrected),
                 ["noise_sd"] = Number(r.NoiseSd),
             });
             foreach (var c in found.ChangePoints)
