@@ -55,3 +55,16 @@ public class InstallTests
         Assert.Equal(["stats", "default", "small"], completed.Stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries));
     }
 }
+
+/// <summary>A skipped test teaches: every outside need names what is missing and the one command that provides it.</summary>
+public class SkipMessageTests
+{
+    [Fact]
+    public void Every_need_names_the_command_that_provides_it()
+    {
+        var needs = Enum.GetValues<Needs>().Where(n => n != Needs.None).ToList();
+        Assert.Equal(needs.Order(), InteropFactAttribute.Remedies.Keys.Order());
+        Assert.All(InteropFactAttribute.Remedies.Values, r =>
+            Assert.True(r.Contains("apt-get install ", StringComparison.Ordinal) || r.Contains("export GRIDDRIFT_SHARED=", StringComparison.Ordinal), r));
+    }
+}

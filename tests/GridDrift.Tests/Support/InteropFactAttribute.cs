@@ -26,18 +26,31 @@ public sealed class InteropFactAttribute : FactAttribute
         if (Missing(needs) is { } reason && !ExternalTools.InteropRequired) Skip = reason;
     }
 
+    /// <summary>What each need is, and the one command that provides it.</summary>
+    internal static readonly IReadOnlyDictionary<Needs, string> Remedies = new Dictionary<Needs, string>
+    {
+        [Needs.Ncdump] = "ncdump (apt-get install netcdf-bin)",
+        [Needs.Ncgen] = "ncgen (apt-get install netcdf-bin)",
+        [Needs.PythonNetcdf] = "python netCDF4 (apt-get install python3-netcdf4 python3-numpy)",
+        [Needs.PythonScipy] = "scipy (apt-get install python3-scipy)",
+        [Needs.PythonStatsmodels] = "statsmodels (apt-get install python3-statsmodels)",
+        [Needs.Slurm] = "a running Slurm cluster (as root: bash .ci/slurm/up, after apt-get install slurmctld slurmd slurm-client munge)",
+        [Needs.SharedData] = "the shared test files of the project (its shared/ folder, placed beside the checkout as ../shared, or: export GRIDDRIFT_SHARED=/path/to/shared)",
+        [Needs.Fonts] = "a TrueType font for plot labels (apt-get install fonts-dejavu-core)",
+    };
+
     internal static string? Missing(Needs needs)
     {
-        var missing = new List<string>();
-        if (needs.HasFlag(Needs.Ncdump) && !ExternalTools.HasNcdump) missing.Add("ncdump (apt-get install netcdf-bin)");
-        if (needs.HasFlag(Needs.Ncgen) && !ExternalTools.HasNcgen) missing.Add("ncgen (apt-get install netcdf-bin)");
-        if (needs.HasFlag(Needs.PythonNetcdf) && !ExternalTools.HasPythonNetcdf) missing.Add("python netCDF4 (apt-get install python3-netcdf4 python3-numpy)");
-        if (needs.HasFlag(Needs.PythonScipy) && !ExternalTools.HasPythonScipy) missing.Add("scipy (apt-get install python3-scipy)");
-        if (needs.HasFlag(Needs.PythonStatsmodels) && !ExternalTools.HasPythonStatsmodels) missing.Add("statsmodels (apt-get install python3-statsmodels)");
-        if (needs.HasFlag(Needs.Slurm) && !ExternalTools.HasSlurm) missing.Add("a running Slurm cluster (as root: bash .ci/slurm/up, after apt-get install slurmctld slurmd slurm-client munge)");
-        if (needs.HasFlag(Needs.SharedData) && SharedData.Root is null) missing.Add("the ../shared folder beside the checkout");
-        if (needs.HasFlag(Needs.Fonts) && !HasFont()) missing.Add("a TrueType font for plot labels (apt-get install fonts-dejavu-core)");
-        return missing.Count == 0 ? null : "skipped: needs " + string.Join(", ", missing);
+        var absent = new List<Needs>();
+        if (needs.HasFlag(Needs.Ncdump) && !ExternalTools.HasNcdump) absent.Add(Needs.Ncdump);
+        if (needs.HasFlag(Needs.Ncgen) && !ExternalTools.HasNcgen) absent.Add(Needs.Ncgen);
+        if (needs.HasFlag(Needs.PythonNetcdf) && !ExternalTools.HasPythonNetcdf) absent.Add(Needs.PythonNetcdf);
+        if (needs.HasFlag(Needs.PythonScipy) && !ExternalTools.HasPythonScipy) absent.Add(Needs.PythonScipy);
+        if (needs.HasFlag(Needs.PythonStatsmodels) && !ExternalTools.HasPythonStatsmodels) absent.Add(Needs.PythonStatsmodels);
+        if (needs.HasFlag(Needs.Slurm) && !ExternalTools.HasSlurm) absent.Add(Needs.Slurm);
+        if (needs.HasFlag(Needs.SharedData) && SharedData.Root is null) absent.Add(Needs.SharedData);
+        if (needs.HasFlag(Needs.Fonts) && !HasFont()) absent.Add(Needs.Fonts);
+        return absent.Count == 0 ? null : "skipped: needs " + string.Join(", ", absent.Select(n => Remedies[n]));
     }
 
     static bool HasFont()
