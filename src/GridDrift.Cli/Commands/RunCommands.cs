@@ -13,7 +13,7 @@ public static class RunCommands
         var recipe = new Argument<string>("RECIPE") { Description = "a recipe file (TOML): [input] and one table per step" };
         var quiet = CommonOptions.Quiet();
         var verbose = Verbose();
-        var shard = new Option<string?>("--shard") { Description = "run only shard I of N (I/N, from 1): its contiguous slice of the record, into OUT/shards/shard-I-of-N; combine the shards with griddrift gather" };
+        var shard = new Option<string?>("--shard") { Description = "run only shard I of N (I/N, from 1): its contiguous slice of the record, into OUT/shards/shard-II-of-NN (at least two digits: shard 2/4 is shard-02-of-04); combine the shards with griddrift gather" };
         shard.Validators.Add(result =>
         {
             try { if (result.GetValueOrDefault<string?>() is { } t) ShardSpec.Parse(t); }
@@ -53,7 +53,7 @@ public static class RunCommands
 
     public static Command Gather(string[] commandLine)
     {
-        var folders = new Argument<string[]>("SHARD-DIR") { Description = "the shard folders of one sharded run (OUT/shards/shard-I-of-N), all N of them", Arity = ArgumentArity.OneOrMore };
+        var folders = new Argument<string[]>("SHARD-DIR") { Description = "the shard folders of one sharded run (OUT/shards/shard-II-of-NN), all N of them", Arity = ArgumentArity.OneOrMore };
         var output = new Option<string?>("--out") { Description = "folder for the gathered products (default: the recipe's [input] out)" };
         var quiet = CommonOptions.Quiet();
         var json = CommandJson.Option();

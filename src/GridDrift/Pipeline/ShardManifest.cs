@@ -6,7 +6,7 @@ using GridDrift.Frames;
 namespace GridDrift.Pipeline;
 
 /// <summary>
-/// OUT/shards/shard-I-of-N/shard.json: which recipe, which shard of how many, which frames and
+/// OUT/shards/shard-II-of-NN/shard.json: which recipe, which shard of how many, which frames and
 /// times of the record it owns, and on which host it ran. griddrift gather reads it to check that
 /// every shard of one run is there exactly once, and lists it in the gathered products.
 /// </summary>

@@ -14,7 +14,7 @@ internal readonly record struct ShardSpec(int Index, int Count)
         throw new FormatException($"--shard '{text}' should be I/N with 1 <= I <= N, e.g. 2/4");
     }
 
-    /// <summary>OUT/shards/shard-I-of-N: the shard's own products, checkpoints and manifest.</summary>
+    /// <summary>OUT/shards/shard-II-of-NN (at least two digits): the shard's own products, checkpoints and manifest.</summary>
     public string Folder(string outDir) => Path.Combine(outDir, "shards", $"shard-{Index.ToString("D2", CultureInfo.InvariantCulture)}-of-{Count.ToString("D2", CultureInfo.InvariantCulture)}");
 
     /// <summary>A shard's checkpoints hold for that shard only.</summary>
