@@ -69,7 +69,7 @@ internal sealed class SeparableReducer
                 w += f * sums[3 * j];
                 wd += f * sums[3 * j + 1];
                 wd2 += f * sums[3 * j + 2];
-                if (sums[3 * j] > 0)
+                if (f > 0 && sums[3 * j] > 0)
                 {
                     if (min[j] < lo) lo = min[j];
                     if (max[j] > hi) hi = max[j];
@@ -103,12 +103,17 @@ internal sealed class SeparableReducer
             {
                 var xv = Vector256.LoadUnsafe(ref x, (nuint)i);
                 var valid = Vector256.Equals(xv, xv); // false where NaN
-                vlo = Vector256.Min(vlo, Vector256.ConditionalSelect(valid, xv, Vector256.Create(float.PositiveInfinity)));
-                vhi = Vector256.Max(vhi, Vector256.ConditionalSelect(valid, xv, Vector256.Create(float.NegativeInfinity)));
+                var wl0 = Vector256.LoadUnsafe(ref w, (nuint)i);
+                var wh0 = Vector256.LoadUnsafe(ref w, (nuint)(i + 4));
+                // extremes only over cells inside the box: a box across the grid's seam spans columns of width 0 between its two ends
+                var inside = Vector256.Narrow(Vector256.GreaterThan(wl0, Vector256<double>.Zero).AsInt64(), Vector256.GreaterThan(wh0, Vector256<double>.Zero).AsInt64()).AsSingle();
+                var counted = valid & inside;
+                vlo = Vector256.Min(vlo, Vector256.ConditionalSelect(counted, xv, Vector256.Create(float.PositiveInfinity)));
+                vhi = Vector256.Max(vhi, Vector256.ConditionalSelect(counted, xv, Vector256.Create(float.NegativeInfinity)));
                 var (xl, xh) = Vector256.Widen(xv);
                 var (ml, mh) = Vector256.Widen(valid.AsInt32());
-                var wl = Vector256.LoadUnsafe(ref w, (nuint)i) & ml.AsDouble();
-                var wh = Vector256.LoadUnsafe(ref w, (nuint)(i + 4)) & mh.AsDouble();
+                var wl = wl0 & ml.AsDouble();
+                var wh = wh0 & mh.AsDouble();
                 // masked-out lanes have weight 0, and NaN - shift times 0 is NaN: zero the values too
                 var dl = (xl - vshift) & ml.AsDouble();
                 var dh = (xh - vshift) & mh.AsDouble();
@@ -130,6 +135,7 @@ internal sealed class SeparableReducer
             if (float.IsNaN(x0)) continue;
             double ww = Unsafe.Add(ref w, i), d = x0 - (double)shift;
             a0 += ww; a1 += ww * d; a2 += ww * d * d;
+            if (ww <= 0) continue;
             if (x0 < lo) lo = x0;
             if (x0 > hi) hi = x0;
         }
