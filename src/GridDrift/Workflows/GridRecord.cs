@@ -112,7 +112,7 @@ public sealed class GridRecord : IDisposable
                 ["title"] = $"Area-weighted statistics of {Variable} per region",
                 ["earth_radius_m"] = Grid.EarthRadius.ToString("R", CultureInfo.InvariantCulture),
                 ["min_valid"] = minValid.ToString("R", CultureInfo.InvariantCulture),
-                ["quantile_definition"] = "area-weighted, Hazen plotting positions (Hyndman & Fan 1996 definition 5 for equal weights)",
+                ["quantile_definition"] = "area-weighted, tied values as one atom, Hazen plotting positions (Hyndman & Fan 1996 definition 5 for equal weights without ties)",
             });
 
     /// <summary>

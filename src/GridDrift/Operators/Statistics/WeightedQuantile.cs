@@ -1,11 +1,13 @@
 namespace GridDrift.Operators.Statistics;
 
 /// <summary>
-/// Area-weighted quantiles. Values sorted ascending, each value i stands at the cumulative
-/// probability of the middle of its weight, cᵢ = (Σ_{k&lt;i} wₖ + wᵢ/2) / Σw, and the p-quantile
-/// interpolates linearly between the two values whose cᵢ bracket p (the lowest value below
-/// c₀, the highest above the last). With equal weights this is definition 5 of Hyndman & Fan
-/// (1996, The American Statistician 50(4): 361), Hazen's plotting position (k − ½)/n.
+/// Area-weighted quantiles. The distinct values sorted ascending are atoms, each weighing the sum
+/// of the weights of the cells that hold it (tied values are one atom, so the result does not
+/// depend on the order the cells are stored in); atom i stands at the cumulative probability of
+/// the middle of its weight, cᵢ = (Σ_{k&lt;i} Wₖ + Wᵢ/2) / ΣW, and the p-quantile interpolates
+/// linearly between the two atoms whose cᵢ bracket p (the lowest value below c₀, the highest
+/// above the last). With equal weights and no ties this is definition 5 of Hyndman & Fan (1996,
+/// The American Statistician 50(4): 361), Hazen's plotting position (k − ½)/n.
 /// Large inputs are not sorted whole: a histogram of the values finds, for each p, the few
 /// neighbouring bins that hold the bracketing values, and only those are sorted; the weight of
 /// all lower bins is known exactly, so the result is the same as a full sort's.
@@ -49,17 +51,21 @@ internal static class WeightedQuantile
         double target = p * total;
         double previousMid = double.NaN, previousValue = double.NaN;
         double before = below;
-        for (int i = 0; i < v.Length; i++)
+        for (int i = 0; i < v.Length;)
         {
-            double mid = before + 0.5 * w[i];
+            // one atom: the run of equal values (equal values always fall in the same histogram bin, so a run is never cut)
+            float value = v[i];
+            double weight = 0;
+            for (; i < v.Length && v[i] == value; i++) weight += w[i];
+            double mid = before + 0.5 * weight;
             if (mid >= target)
             {
-                if (double.IsNaN(previousMid)) return isFirst ? v[i] : double.NaN;
-                return previousValue + (v[i] - previousValue) * (target - previousMid) / (mid - previousMid);
+                if (double.IsNaN(previousMid)) return isFirst ? value : double.NaN;
+                return previousValue + (value - previousValue) * (target - previousMid) / (mid - previousMid);
             }
-            before += w[i];
+            before += weight;
             previousMid = mid;
-            previousValue = v[i];
+            previousValue = value;
         }
         return isLast ? v[^1] : double.NaN;
     }
