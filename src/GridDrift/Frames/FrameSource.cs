@@ -18,7 +18,8 @@ internal sealed class FrameSource : IDisposable
     readonly Part[] _parts;
     readonly int[] _partStart;
 
-    sealed record Part(IDatasetReader Reader, NcVariable Variable, ValueCodec Codec, TimeAxis Time, int TimeDimension);
+    // each file's own axes: their coordinate variables belong to that file's reader
+    sealed record Part(IDatasetReader Reader, NcVariable Variable, ValueCodec Codec, TimeAxis Time, int TimeDimension, VariableAxes Axes);
 
     public string VariableName { get; }
     public IReadOnlyList<string> Files { get; }
@@ -37,11 +38,12 @@ internal sealed class FrameSource : IDisposable
     public IDatasetReader Template => _parts[0].Reader;
     public VariableAxes Axes { get; }
 
-    FrameSource(string variable, Part[] parts, VariableAxes axes, List<string> warnings)
+    FrameSource(string variable, Part[] parts, List<string> warnings)
     {
         VariableName = variable;
         _parts = parts;
-        Axes = axes;
+        // the earliest file is the template: its axes, not those of the file named first
+        Axes = parts[0].Axes;
         Files = parts.Select(p => p.Reader.Path).ToList();
         _partStart = new int[parts.Length + 1];
         var times = new List<CfTime>();
@@ -67,7 +69,6 @@ internal sealed class FrameSource : IDisposable
         if (paths.Count == 0) throw new BadInputException(null, variable, "no input files");
         var parts = new List<Part>();
         var warnings = new List<string>();
-        VariableAxes? axes = null;
         try
         {
             foreach (var path in paths)
@@ -84,10 +85,10 @@ internal sealed class FrameSource : IDisposable
                     if (timeDim < 0)
                         throw new BadInputException(path, variable, "has no time dimension (no coordinate variable with time units along any of its dimensions)");
                     var time = TimeAxis.Read(reader, fileAxes.DimensionCoordinates[timeDim]!);
+                    foreach (var w in time.Warnings) warnings.Add($"{path}: variable '{time.VariableName}': {w}");
                     var codec = ValueCodec.For(v);
                     foreach (var w in codec.Warnings) warnings.Add($"{path}: variable '{variable}': {w}");
-                    axes ??= fileAxes;
-                    parts.Add(new Part(reader, v, codec, time, timeDim));
+                    parts.Add(new Part(reader, v, codec, time, timeDim, fileAxes));
                 }
                 catch (Exception e) when (e is ArithmeticException or OutOfMemoryException or IndexOutOfRangeException or InvalidOperationException)
                 {
@@ -103,7 +104,7 @@ internal sealed class FrameSource : IDisposable
             }
             var ordered = parts.OrderBy(p => p.Time.Times.Length == 0 ? long.MaxValue : p.Time.Times[0].Micros).ToArray();
             CheckConsistent(ordered, variable);
-            return new FrameSource(variable, ordered, axes!, warnings);
+            return new FrameSource(variable, ordered, warnings);
         }
         catch
         {
