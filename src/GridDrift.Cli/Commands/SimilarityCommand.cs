@@ -65,6 +65,7 @@ public static class SimilarityCommand
                 Reference: reference.Length > 0 ? InputPaths.Expand(reference) : null, Units: parse.GetValue(units));
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "pairs", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => SimilarityStep.Run(options with { Output = path, Format = variant }, progress)));
             var error = parse.InvocationConfiguration.Error;
+            foreach (var w in summary.Warnings) error.WriteLine($"griddrift similarity: warning: {w}");
             if (summary.CellsOutsideRange > 0)
                 error.WriteLine($"griddrift similarity: warning: {summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High} ({summary.Range.Source}); SSIM's constants assume they do not");
             if (!parse.GetValue(quiet))
@@ -79,7 +80,7 @@ public static class SimilarityCommand
             {
                 ["pairs"] = summary.Pairs, ["regions"] = summary.Regions, ["pairs_skipped_across_gaps"] = summary.Skipped.Count,
                 ["values_outside_range"] = summary.CellsOutsideRange,
-            }, summary.CellsOutsideRange > 0 ? [$"{summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High}"] : []));
+            }, [.. summary.Warnings, .. summary.CellsOutsideRange > 0 ? [$"{summary.CellsOutsideRange} values lie outside the data range {summary.Range.Low}:{summary.Range.High}"] : Array.Empty<string>()]));
             return ExitCodes.Success;
         });
         return command;

@@ -49,6 +49,7 @@ public static class StatsCommand
                 statistics, parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(minValid), parse.GetValue(radius),
                 null, CommonOptions.CommandLine("stats", commandLine)) with { Units = parse.GetValue(units) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => StatsStep.Run(options with { Output = path, Format = variant }, progress)));
+            foreach (var w in summary.Warnings) parse.InvocationConfiguration.Error.WriteLine($"griddrift stats: warning: {w}");
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine(
                     $"griddrift stats: {Counted.Of(summary.Frames, "frame")} × {Counted.Of(summary.Regions, "region")} written to {options.Output}" +
@@ -58,7 +59,7 @@ public static class StatsCommand
             {
                 ["frames"] = summary.Frames, ["regions"] = summary.Regions, ["values"] = summary.Values,
                 ["below_min_valid"] = summary.BelowMinValid, ["no_data"] = summary.NoData,
-            }));
+            }, summary.Warnings));
             return ExitCodes.Success;
         });
         return command;

@@ -30,6 +30,7 @@ internal static class DescribeStep
             try
             {
                 var axis = TimeAxis.Read(reader, timeVariable);
+                foreach (var w in axis.Warnings) warnings.Add($"variable '{axis.VariableName}': {w}");
                 time = Describe(axis.VariableName, axis, axis.Times);
             }
             catch (BadInputException e)

@@ -34,7 +34,7 @@ internal sealed record SimilarityOptions(
     string? Units = null,
     FrameSlice? Slice = null);
 
-internal sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions);
+internal sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions, IReadOnlyList<string> Warnings);
 
 /// <summary>
 /// `griddrift similarity`: pair metrics per region over a record — consecutive frames (lag k)
@@ -76,7 +76,7 @@ internal static class SimilarityStep
         using var products = new SeriesProducts(o.Output, o.Table, layout, o.Format);
         long outside = record.Pairs(regions, o.Metrics, range, o.MinValid, pairs, products, new EngineSettings(o.Workers, progress), observed, reference);
         products.Complete();
-        return new SimilaritySummary(pairs.Count, skipped, range, outside, regions.Count);
+        return new SimilaritySummary(pairs.Count, skipped, range, outside, regions.Count, [.. record.Warnings, .. observed?.Warnings ?? []]);
     }
 
     static float[] ReadReference(string path, string variable, Grid grid)

@@ -27,7 +27,7 @@ internal sealed record StatsOptions(
     FrameSlice? Slice = null);
 
 /// <summary>What a stats run did, for the summary line and for tests.</summary>
-internal sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionMask Mask);
+internal sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionMask Mask, IReadOnlyList<string> Warnings);
 
 /// <summary>
 /// `griddrift stats`: area-weighted statistics per frame and region, streamed. Frames are read
@@ -49,6 +49,6 @@ internal static class StatsStep
         products.Complete();
         var grid = record.Grid;
         var mask = regions.Mask;
-        return new StatsSummary(slice.Count, mask.Count, (long)slice.Count * mask.Count * statistics.Length, below, noData, grid, mask);
+        return new StatsSummary(slice.Count, mask.Count, (long)slice.Count * mask.Count * statistics.Length, below, noData, grid, mask, record.Warnings);
     }
 }

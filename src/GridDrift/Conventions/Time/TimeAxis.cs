@@ -12,6 +12,8 @@ internal sealed class TimeAxis
     public CfCalendar Calendar => Units.Calendar;
     /// <summary>The calendar attribute as the file spells it ("gregorian", "365_day" …), or "standard".</summary>
     public required string CalendarAttribute { get; init; }
+    /// <summary>How the axis was read where that differs from the letter of CF (calendar months).</summary>
+    public IReadOnlyList<string> Warnings { get; init; } = [];
 
     public static TimeAxis Read(IDatasetReader reader, NcVariable variable)
     {
@@ -32,12 +34,20 @@ internal sealed class TimeAxis
         var raw = reader.ReadAllDoubles(variable);
         var codec = Values.ValueCodec.For(variable);
         var times = new CfTime[raw.Length];
+        int monthsPerUnit = CalendarMonths(parsed);
         for (int i = 0; i < raw.Length; i++)
         {
             double value = raw[i] * codec.Scale + codec.Offset;
             if (!double.IsFinite(value) || Math.Abs(value * parsed.MicrosPerUnit) > 9e18)
                 throw new BadInputException(reader.Path, variable.Name, $"time value at index {i} ({raw[i]}) is missing or out of range");
-            times[i] = parsed.Decode(value);
+            if (monthsPerUnit > 0)
+            {
+                if (Math.Abs(value - Math.Round(value)) > 1e-9 * Math.Max(1, Math.Abs(value)))
+                    throw new BadInputException(reader.Path, variable.Name,
+                        $"time value {value} at index {i} is not a whole number of {parsed.UnitName}: '{units}' can only be read as calendar {parsed.UnitName} (UDUNITS' fixed-length month of 30.436875 days puts monthly data on the wrong days); give the time in days");
+                times[i] = AddMonths(parsed.Reference, checked((long)Math.Round(value) * monthsPerUnit));
+            }
+            else times[i] = parsed.Decode(value);
         }
         return new TimeAxis
         {
@@ -46,6 +56,33 @@ internal sealed class TimeAxis
             Times = times,
             RawValues = raw,
             CalendarAttribute = calendarText,
+            Warnings = monthsPerUnit > 0 && raw.Length > 0
+                ? [$"'{units}' is read as calendar {parsed.UnitName} from {parsed.Reference.ToIsoString()[..10]}, not as UDUNITS' fixed {(monthsPerUnit == 1 ? "30.436875-day months" : "365.242198781-day years")}"]
+                : [],
         };
+    }
+
+    /// <summary>
+    /// Months per unit when whole "months"/"years since" values are read as calendar months
+    /// (common practice for monthly data; CF itself discourages these units), else 0. The
+    /// 360_day calendar's months are 30 days already, so its fixed lengths are exact.
+    /// </summary>
+    static int CalendarMonths(TimeUnits units) =>
+        units.Calendar == CfCalendar.Day360 ? 0 : units.UnitName switch
+        {
+            "months" or "month" => 1,
+            "years" or "year" or "yr" or "yrs" => 12,
+            _ => 0,
+        };
+
+    /// <summary>The reference moved by whole calendar months; a day beyond the target month's end becomes its last day.</summary>
+    static CfTime AddMonths(CfTime reference, long months)
+    {
+        var (year, month, day) = reference.Date;
+        long index = checked(year * 12 + (month - 1) + months);
+        long y = (long)Math.Floor(index / 12.0);
+        int m = (int)(index - y * 12) + 1;
+        int d = Math.Min(day, reference.Calendar.DaysInMonth(y, m));
+        return CfTime.Of(reference.Calendar, y, m, d, reference.Hour, reference.Minute, reference.Second);
     }
 }
