@@ -12,6 +12,8 @@ internal static class RectilinearGrid
         double radius = Sphere.MeanEarthRadius, bool columnsFirst = false)
     {
         if (lat.Length == 0 || lon.Length == 0) throw new ArgumentException("a grid needs at least one latitude and one longitude");
+        if ((latBounds is not null && !Contiguous(latBounds, lat.Length)) || (lonBounds is not null && !Contiguous(lonBounds, lon.Length)))
+            return FromOwnBounds(lat, lon, latBounds ?? Bounds(EdgesFromCentres(lat)), lonBounds ?? Bounds(EdgesFromCentres(lon)), radius, columnsFirst);
         var latEdges = latBounds is not null ? EdgesFromBounds(latBounds, lat.Length) : EdgesFromCentres(lat);
         for (int i = 0; i < latEdges.Length; i++) latEdges[i] = Math.Clamp(latEdges[i], -90, 90);
         var lonEdges = lonBounds is not null ? EdgesFromBounds(lonBounds, lon.Length) : EdgesFromCentres(lon);
@@ -45,6 +47,64 @@ internal static class RectilinearGrid
             ColumnsFirst = columnsFirst,
         };
     }
+
+    /// <summary>
+    /// Cells that do not touch (a subset taken with a stride keeps each cell's own CF bounds, CF
+    /// §7.1): each cell's area comes from its own bounds, and the cell is given by its four
+    /// corners, as on curvilinear grids, since no shared edges describe the grid.
+    /// </summary>
+    static Grid FromOwnBounds(double[] lat, double[] lon, double[] latBounds, double[] lonBounds, double radius, bool columnsFirst)
+    {
+        int ny = lat.Length, nx = lon.Length;
+        var area = new double[ny * nx];
+        var clat = new double[ny * nx];
+        var clon = new double[ny * nx];
+        var cornerLat = new double[4 * ny * nx];
+        var cornerLon = new double[4 * ny * nx];
+        for (int j = 0; j < ny; j++)
+        {
+            double s = Math.Clamp(Math.Min(latBounds[2 * j], latBounds[2 * j + 1]), -90, 90), n = Math.Clamp(Math.Max(latBounds[2 * j], latBounds[2 * j + 1]), -90, 90);
+            for (int i = 0; i < nx; i++)
+            {
+                double w = Math.Min(lonBounds[2 * i], lonBounds[2 * i + 1]), e = Math.Max(lonBounds[2 * i], lonBounds[2 * i + 1]);
+                int cell = j * nx + i;
+                area[cell] = radius * radius * Sphere.ZoneFactor(s, n) * (e - w) * Math.PI / 180;
+                clat[cell] = lat[j];
+                clon[cell] = lon[i];
+                double[] la = [s, s, n, n], lo = [w, e, e, w];
+                for (int m = 0; m < 4; m++) { cornerLat[4 * cell + m] = la[m]; cornerLon[4 * cell + m] = lo[m]; }
+            }
+        }
+        return new Grid
+        {
+            Kind = HorizontalGrid.FromAxes(lat, lon).Kind,
+            Rows = ny,
+            Columns = nx,
+            EarthRadius = radius,
+            CenterLat = clat,
+            CenterLon = clon,
+            CellArea = area,
+            CornerLat = cornerLat,
+            CornerLon = cornerLon,
+            ColumnsFirst = columnsFirst,
+        };
+    }
+
+    /// <summary>Whether neighbouring cells share their edge (to a millionth of the axis' span).</summary>
+    static bool Contiguous(double[] bounds, int n)
+    {
+        if (bounds.Length != 2 * n) return true; // left to EdgesFromBounds, which names the fault
+        double span = Math.Abs(bounds.Max() - bounds.Min()), tolerance = 1e-6 * Math.Max(span, 1e-9);
+        for (int i = 0; i + 1 < n; i++)
+        {
+            double a = bounds[2 * i], b = bounds[2 * i + 1], c = bounds[2 * i + 2], d = bounds[2 * i + 3];
+            bool touch = Math.Abs(Math.Max(a, b) - Math.Min(c, d)) <= tolerance || Math.Abs(Math.Min(a, b) - Math.Max(c, d)) <= tolerance;
+            if (!touch) return false;
+        }
+        return true;
+    }
+
+    static double[] Bounds(double[] edges) => Enumerable.Range(0, edges.Length - 1).SelectMany(i => new[] { edges[i], edges[i + 1] }).ToArray();
 
     /// <summary>Edges halfway between centres; the ends half a step out.</summary>
     public static double[] EdgesFromCentres(double[] c)
