@@ -55,6 +55,15 @@ internal static class CommonOptions
 
     public static Option<string?> Units() => new("--units") { Description = "deliver the variable in these units (UDUNITS-style, e.g. degC, g/kg, hPa)" };
 
+    /// <summary>`--period START/END`: only the frames inside, START included, END excluded, in the record's calendar.</summary>
+    public static Option<string?> Period() => new Option<string?>("--period")
+    {
+        Description = "read only the frames from START (included) to END (excluded), ISO 8601 in the record's calendar; either end may be .. (e.g. 2031-03/2031-06, 2031-03-01/..)",
+    }.Accepts(v => { if (v is not null) GridDrift.Conventions.Time.RecordWindow.Parse(v); });
+
+    public static GridDrift.Frames.FrameSelection SelectionOf(System.CommandLine.ParseResult parse, Option<string?> period) =>
+        GridDrift.Frames.FrameSelection.Of(parse.GetValue(period));
+
     public static Option<bool> Quiet() => new("--quiet") { Description = "no progress or summary on stderr" };
 
     /// <summary>The command line as typed, for provenance.</summary>

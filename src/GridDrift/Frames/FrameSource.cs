@@ -19,7 +19,12 @@ internal sealed class FrameSource : IDisposable
     readonly int[] _partStart;
 
     // each file's own axes: their coordinate variables belong to that file's reader
-    sealed record Part(IDatasetReader Reader, NcVariable Variable, ValueCodec Codec, TimeAxis Time, int TimeDimension, VariableAxes Axes);
+    sealed record Part(IDatasetReader Reader, NcVariable Variable, ValueCodec Codec, TimeAxis Time, int TimeDimension, VariableAxes Axes)
+    {
+        /// <summary>The file's frames in the selection: [First, First + Count) of its time axis.</summary>
+        public int First { get; init; }
+        public int Count { get; init; } = Time.Times.Length;
+    }
 
     public string VariableName { get; }
     public IReadOnlyList<string> Files { get; }
@@ -50,7 +55,7 @@ internal sealed class FrameSource : IDisposable
         for (int i = 0; i < parts.Length; i++)
         {
             _partStart[i] = times.Count;
-            times.AddRange(parts[i].Time.Times);
+            times.AddRange(parts[i].Time.Times.Skip(parts[i].First).Take(parts[i].Count));
         }
         _partStart[^1] = times.Count;
         Times = times;
@@ -64,7 +69,7 @@ internal sealed class FrameSource : IDisposable
         Warnings = warnings;
     }
 
-    public static FrameSource Open(IReadOnlyList<string> paths, string variable)
+    public static FrameSource Open(IReadOnlyList<string> paths, string variable, FrameSelection? selection = null)
     {
         if (paths.Count == 0) throw new BadInputException(null, variable, "no input files");
         var parts = new List<Part>();
@@ -104,6 +109,7 @@ internal sealed class FrameSource : IDisposable
             }
             var ordered = parts.OrderBy(p => p.Time.Times.Length == 0 ? long.MaxValue : p.Time.Times[0].Micros).ToArray();
             CheckConsistent(ordered, variable);
+            if (selection?.Period is { } period) ordered = Within(ordered, period, variable);
             return new FrameSource(variable, ordered, warnings);
         }
         catch
@@ -111,6 +117,32 @@ internal sealed class FrameSource : IDisposable
             foreach (var p in parts) p.Reader.Dispose();
             throw;
         }
+    }
+
+    /// <summary>Only the frames inside the window; files with none are closed. Times are sorted, so each file keeps one run.</summary>
+    static Part[] Within(Part[] parts, Conventions.Time.RecordWindow window, string variable)
+    {
+        (CfTime? Start, CfTime? End) bounds;
+        try { bounds = window.In(parts[0].Time.Calendar); }
+        catch (FormatException e) { throw new BadInputException(parts[0].Reader.Path, parts[0].Time.VariableName, $"--period {window.Text}: {e.Message}"); }
+        var kept = new List<Part>();
+        foreach (var p in parts)
+        {
+            var times = p.Time.Times;
+            int first = 0;
+            while (first < times.Length && !window.Contains(times[first], bounds) && (bounds.Start is not { } s || times[first] < s)) first++;
+            int end = first;
+            while (end < times.Length && window.Contains(times[end], bounds)) end++;
+            if (end > first) kept.Add(p with { First = first, Count = end - first });
+        }
+        foreach (var p in parts.Where(p => !kept.Any(k => ReferenceEquals(k.Reader, p.Reader)))) p.Reader.Dispose();
+        if (kept.Count == 0)
+        {
+            var all = parts.SelectMany(p => p.Time.Times).ToList();
+            throw new BadInputException(parts[0].Reader.Path, variable,
+                $"no frame of the record falls in --period {window.Text} (the record runs from {all.Min().ToIsoString()} to {all.Max().ToIsoString()})");
+        }
+        return [.. kept];
     }
 
     static void CheckConsistent(Part[] parts, string variable)
@@ -178,7 +210,7 @@ internal sealed class FrameSource : IDisposable
     public (string File, int LocalIndex) Locate(int index)
     {
         int part = PartOf(index);
-        return (_parts[part].Reader.Path, index - _partStart[part]);
+        return (_parts[part].Reader.Path, index - _partStart[part] + _parts[part].First);
     }
 
     /// <summary>The files holding frames [first, end), in time order: what one shard of a sharded run reads.</summary>
@@ -241,6 +273,7 @@ internal sealed class FrameSource : IDisposable
             shared = fill;
             if (part.Reader is not IStoredFrameLayout layout || layout.LocateFrames(part.Variable, part.TimeDimension) is not { BigEndian: true } stored
                 || stored.Bytes != 4L * FrameLength || stored.FrameCount < _partStart[p + 1] - _partStart[p]) return null;
+            if (part.First > 0) stored = stored with { Offset = stored.Offset + part.First * stored.Stride, FrameCount = stored.FrameCount - part.First };
             pieces[p] = new MappedFrames.Piece(part.Reader.Path, stored, _partStart[p]);
         }
         return new MappedFrames(pieces, shared ?? float.NaN, VariableName);
@@ -262,7 +295,7 @@ internal sealed class FrameSource : IDisposable
         Span<long> start = stackalloc long[rank];
         Span<long> count = stackalloc long[rank];
         for (int d = 0; d < rank; d++) count[d] = part.Variable.Dimensions[d].Length;
-        start[part.TimeDimension] = index - _partStart[p];
+        start[part.TimeDimension] = index - _partStart[p] + part.First;
         count[part.TimeDimension] = 1;
 
         var type = part.Variable.Type;

@@ -29,7 +29,13 @@ internal static class RecipeRunner
 
     /// <summary>What a step runs with.</summary>
     sealed record StepContext(Recipe Recipe, IReadOnlyList<string> Inputs, string Variable, string[] Regions, string[] StepInputs, string[] Outputs, string How,
-        FrameSlice? Slice, Func<string, string> Product, Func<string, string> Resolve, IReadOnlyList<StepOutcome> Earlier);
+        FrameSlice? Slice, Func<string, string> Product, Func<string, string> Resolve, IReadOnlyList<StepOutcome> Earlier)
+    {
+        /// <summary>[input] period: the frames every step reads.</summary>
+        public GridDrift.Frames.FrameSelection Selection => SelectionOf(Recipe);
+    }
+
+    internal static GridDrift.Frames.FrameSelection SelectionOf(Recipe r) => GridDrift.Frames.FrameSelection.Of(r.OptionalText("input", "period"));
 
     /// <summary>The steps in the order they run.</summary>
     static readonly RecipeStep[] Steps =
@@ -124,6 +130,8 @@ internal static class RecipeRunner
             if (first.FindVariable(variable) is null)
                 throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "variable"), "input.variable",
                     $"{inputs[0]} has no variable '{variable}' (it has: {string.Join(", ", first.Variables.Select(v => v.Name))})");
+        try { SelectionOf(recipe); }
+        catch (FormatException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "period"), "input.period", e.Message); }
         try { GridDrift.Regions.RegionSpecs.ParseInput(recipe.List("input", "regions", ["global"])); }
         catch (BadInputException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "regions"), "input.regions", e.Fault); }
         foreach (var step in Steps.Where(s => recipe.Has(s.Name))) step.Check(recipe);
@@ -315,7 +323,7 @@ internal static class RecipeRunner
         var r = c.Recipe;
         var statistics = StatsKeys.Statistics(r.Get("stats", StatsKeys.Stat));
         var s = StatsStep.Run(new StatsOptions(c.Inputs, c.Variable, c.Regions, statistics, c.Outputs[0], c.Outputs.Length > 1 ? c.Outputs[1] : null,
-            r.Get("stats", CommonKeys.MinValid), Command: c.How, Slice: c.Slice));
+            r.Get("stats", CommonKeys.MinValid), Command: c.How, Slice: c.Slice) { Selection = c.Selection });
         return new JsonObject { ["frames"] = s.Frames, ["regions"] = s.Regions };
     }
 
@@ -325,7 +333,7 @@ internal static class RecipeRunner
         var metrics = SimilarityKeys.Metrics(r.Get("similarity", SimilarityKeys.Metric));
         var s = SimilarityStep.Run(new SimilarityOptions(c.Inputs, c.Variable, c.Regions, metrics, c.Outputs[0], c.Outputs.Length > 1 ? c.Outputs[1] : null,
             r.Get("similarity", SimilarityKeys.Lag), r.Get("similarity", SimilarityKeys.Range), r.Get("similarity", SimilarityKeys.AcrossGaps),
-            MinValid: r.Get("similarity", CommonKeys.MinValid), Command: c.How, Slice: c.Slice));
+            MinValid: r.Get("similarity", CommonKeys.MinValid), Command: c.How, Slice: c.Slice) { Selection = c.Selection });
         return new JsonObject { ["pairs"] = s.Pairs, ["regions"] = s.Regions };
     }
 
@@ -338,7 +346,7 @@ internal static class RecipeRunner
     {
         var r = c.Recipe;
         var s = ClimatologyStep.Run(new ClimatologyOptions(c.Inputs, c.Variable, ClimatologyKindOf(r), c.Outputs[0], r.Get("climatology", ClimatologyKeys.Base),
-            r.Get("climatology", ClimatologyKeys.Smooth), Command: c.How, Slice: c.Slice, PartialOut: c.Slice is null ? null : c.Outputs[0]));
+            r.Get("climatology", ClimatologyKeys.Smooth), Command: c.How, Slice: c.Slice, PartialOut: c.Slice is null ? null : c.Outputs[0]) { Selection = c.Selection });
         return ClimatologySummaryJson(s);
     }
 
@@ -349,7 +357,7 @@ internal static class RecipeRunner
         string? table = c.Outputs.Skip(1).FirstOrDefault(o => o.EndsWith(".parquet", StringComparison.Ordinal));
         string? fields = c.Outputs.Skip(1).FirstOrDefault(o => o.EndsWith(ProductNames.Fields, StringComparison.Ordinal));
         var s = AnomaliesStep.Run(new AnomaliesOptions(c.Inputs, c.Variable, c.StepInputs[^1], kind, fields, c.Regions, table, c.Outputs[0],
-            r.Get("anomalies", CommonKeys.MinValid), Command: c.How, Slice: c.Slice));
+            r.Get("anomalies", CommonKeys.MinValid), Command: c.How, Slice: c.Slice) { Selection = c.Selection });
         return new JsonObject { ["frames"] = s.Frames };
     }
 

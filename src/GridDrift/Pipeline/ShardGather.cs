@@ -43,7 +43,7 @@ internal static class ShardGather
         using var runLock = RunLock.Take(stateDir, mainDir);
         string variable = recipe.Text("input", "variable");
         IReadOnlyList<string> inputs;
-        using (var record = GridDrift.Frames.FrameSource.Open(RecipeRunner.Inputs(recipe), variable)) inputs = record.Files; // in time order, as a one-machine run lists them
+        using (var record = GridDrift.Frames.FrameSource.Open(RecipeRunner.Inputs(recipe), variable, RecipeRunner.SelectionOf(recipe))) inputs = record.Files; // in time order, as a one-machine run lists them
         var shardsAttribute = new Dictionary<string, string>
         {
             ["griddrift_shards"] = string.Join("\n", manifests.Select(m => m.Describe())),

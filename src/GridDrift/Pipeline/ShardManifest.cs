@@ -21,7 +21,7 @@ internal sealed record ShardManifest(string Recipe, ShardSpec Shard, FrameSlice 
     /// <summary>Works out the shard's slice of the record and records it before any step runs.</summary>
     internal static FrameSlice Begin(Recipe recipe, ShardSpec shard, IReadOnlyList<string> inputs, string variable, string folder)
     {
-        using var source = FrameSource.Open(inputs, variable);
+        using var source = FrameSource.Open(inputs, variable, RecipeRunner.SelectionOf(recipe));
         var slice = FrameSlice.OfShard(shard.Index, shard.Count, source.FrameCount);
         if (slice.Count == 0)
             throw new BadInputException(recipe.Path, "input.files", $"the record has {source.FrameCount} frames, too few for {shard.Count} shards");

@@ -31,7 +31,11 @@ internal sealed record AnomaliesOptions(
     string Command = "griddrift anomalies",
     int Workers = 0,
     string? Units = null,
-    FrameSlice? Slice = null);
+    FrameSlice? Slice = null)
+{
+    /// <summary>Which frames of the record to read (`--period`; [input] period).</summary>
+    public FrameSelection Selection { get; init; } = FrameSelection.All;
+}
 
 internal sealed record AnomaliesSummary(int Frames, int FramesWithoutSlot, string? Series, IReadOnlyList<string> Warnings);
 
@@ -45,7 +49,7 @@ internal static class AnomaliesStep
 {
     public static AnomaliesSummary Run(AnomaliesOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
-        using var source = FrameSource.Open(o.Inputs, o.Variable);
+        using var source = FrameSource.Open(o.Inputs, o.Variable, o.Selection);
         if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var clim = ClimatologyFile.Read(o.Climatology, o.Variable);
         var warnings = new List<string>(source.Warnings);

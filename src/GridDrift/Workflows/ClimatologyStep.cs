@@ -26,7 +26,11 @@ internal sealed record ClimatologyOptions(
     FrameSlice? Slice = null,
     string? PartialOut = null,
     IReadOnlyList<string>? PartialIn = null,
-    IReadOnlyDictionary<string, string>? Attributes = null);
+    IReadOnlyDictionary<string, string>? Attributes = null)
+{
+    /// <summary>Which frames of the record to read (`--period`; [input] period).</summary>
+    public FrameSelection Selection { get; init; } = FrameSelection.All;
+}
 
 internal sealed record ClimatologySummary(int FramesUsed, int Slots, int EmptySlots, TimePeriod Base, IReadOnlyList<string> Warnings);
 
@@ -50,7 +54,7 @@ internal static class ClimatologyStep
         // files' checksums, and a gather takes them from the shards' states)
         bool wholeRecord = o.PartialOut is null && o.PartialIn is null;
         var hashing = wholeRecord ? ChecksumCache.Prefetch(o.Inputs) : Task.CompletedTask;
-        using var source = FrameSource.Open(o.Inputs, o.Variable);
+        using var source = FrameSource.Open(o.Inputs, o.Variable, o.Selection);
         if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var warnings = new List<string>(source.Warnings);
         var calendar = source.Calendar;

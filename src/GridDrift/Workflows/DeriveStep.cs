@@ -20,7 +20,11 @@ internal sealed record DeriveOptions(
     string Command = "griddrift derive",
     string? Temperature = null,
     string? Pressure = null,
-    string? Units = null);
+    string? Units = null)
+{
+    /// <summary>Which frames of the record to read (`--period`; [input] period).</summary>
+    public FrameSelection Selection { get; init; } = FrameSelection.All;
+}
 
 internal sealed record DeriveSummary(int Frames, int Levels, string Variable);
 
@@ -39,7 +43,7 @@ internal static class DeriveStep
         if (o.Quantity != "column-water-vapour")
             throw new BadInputException(null, null, $"derive {o.Quantity}: choose column-water-vapour, relative-humidity or specific-humidity");
         string variable = o.Variable ?? FindBy(o.Inputs[0], "specific_humidity");
-        using var source = FrameSource.Open(o.Inputs, variable);
+        using var source = FrameSource.Open(o.Inputs, variable, o.Selection);
         var reader = source.Template;
         int vertical = source.Axes.IndexOf(AxisRole.Vertical);
         var data = reader.RequireVariable(variable);
@@ -58,7 +62,7 @@ internal static class DeriveStep
         double psScale = 1;
         if (o.SurfacePressure is { } psName)
         {
-            surface = FrameSource.Open(o.Inputs, psName);
+            surface = FrameSource.Open(o.Inputs, psName, o.Selection);
             if (surface.FrameLength != cells || surface.FrameCount != source.FrameCount)
                 throw new BadInputException(surface.Files[0], psName, $"has {surface.FrameCount} frames of {surface.FrameLength} cells; {variable} has {source.FrameCount} of {cells} per level");
             psScale = Converter(surface.Template.RequireVariable(psName).Attributes.Text("units") ?? "Pa", "Pa", surface.Files[0], psName).Scale;
@@ -103,7 +107,7 @@ internal static class DeriveStep
     {
         bool rh = o.Quantity == "relative-humidity";
         string variable = o.Variable ?? FindBy(o.Inputs[0], rh ? "specific_humidity" : "dew_point_temperature");
-        using var source = FrameSource.Open(o.Inputs, variable);
+        using var source = FrameSource.Open(o.Inputs, variable, o.Selection);
         var reader = source.Template;
         var data = reader.RequireVariable(variable);
         var extra = new List<FrameSource>();
@@ -111,7 +115,7 @@ internal static class DeriveStep
         {
             FrameSource Companion(string name, string what)
             {
-                var f = FrameSource.Open(o.Inputs, name);
+                var f = FrameSource.Open(o.Inputs, name, o.Selection);
                 extra.Add(f);
                 if (f.FrameLength != source.FrameLength || f.FrameCount != source.FrameCount)
                     throw new BadInputException(f.Files[0], name, $"{what} has {f.FrameCount} frames of {f.FrameLength} values; {variable} has {source.FrameCount} of {source.FrameLength}");

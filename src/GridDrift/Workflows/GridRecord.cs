@@ -40,10 +40,11 @@ public sealed class GridRecord : IDisposable
     /// put in time order), delivered in <paramref name="units"/> when given. Bad input is refused with a
     /// <see cref="BadInputException"/> naming the file, the variable and the fault.
     /// </summary>
-    public static GridRecord Open(IReadOnlyList<string> files, string variable, string? units = null, double earthRadius = Sphere.MeanEarthRadius)
+    public static GridRecord Open(IReadOnlyList<string> files, string variable, string? units = null, double earthRadius = Sphere.MeanEarthRadius,
+        FrameSelection? selection = null)
     {
         if (!(earthRadius > 0)) throw new ArgumentOutOfRangeException(nameof(earthRadius), "the sphere's radius must be positive");
-        var source = FrameSource.Open(InputPaths.Expand(files), variable);
+        var source = FrameSource.Open(InputPaths.Expand(files), variable, selection);
         try
         {
             if (units is not null) source.ConvertUnits(units);

@@ -24,7 +24,11 @@ internal sealed record RegridOptions(
     string? Calendar = null,
     string? Resample = null,
     string? Weights = null,
-    string? Units = null);
+    string? Units = null)
+{
+    /// <summary>Which frames of the record to read (`--period`; [input] period).</summary>
+    public FrameSelection Selection { get; init; } = FrameSelection.All;
+}
 
 internal sealed record RegridSummary(int Frames, int Written, int Dropped, Grid Target, RemapWeights Weights, bool WeightsReused = false);
 
@@ -37,7 +41,7 @@ internal static class RegridStep
 {
     public static RegridSummary Run(RegridOptions o, IProgress<(int, int)>? progress = null)
     {
-        using var source = FrameSource.Open(o.Inputs, o.Variable);
+        using var source = FrameSource.Open(o.Inputs, o.Variable, o.Selection);
         if (o.Units is { } wantedUnits) source.ConvertUnits(wantedUnits);
         var grid = GridReader.Read(source.Template, source.Axes);
         if (grid.CellCount != source.FrameLength)

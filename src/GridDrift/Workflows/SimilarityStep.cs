@@ -32,7 +32,11 @@ internal sealed record SimilarityOptions(
     int Workers = 0,
     IReadOnlyList<string>? Reference = null,
     string? Units = null,
-    FrameSlice? Slice = null);
+    FrameSlice? Slice = null)
+{
+    /// <summary>Which frames of the record to read (`--period`; [input] period).</summary>
+    public FrameSelection Selection { get; init; } = FrameSelection.All;
+}
 
 internal sealed record SimilaritySummary(int Pairs, IReadOnlyList<(CfTime Earlier, CfTime Later)> Skipped, DataRange Range, long CellsOutsideRange, int Regions, IReadOnlyList<string> Warnings);
 
@@ -47,13 +51,13 @@ internal static class SimilarityStep
     public static SimilaritySummary Run(SimilarityOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
         if (o.Lag < 1) throw new BadInputException(null, null, "--lag must be at least 1");
-        using var record = GridRecord.Open(o.Inputs, o.Variable, o.Units, o.EarthRadius);
+        using var record = GridRecord.Open(o.Inputs, o.Variable, o.Units, o.EarthRadius, o.Selection);
         var source = record.Source;
         var range = record.DynamicRange(o.Range);
         var regions = record.Regions([.. o.Regions]);
         float[]? reference = o.Against is null ? null : ReadReference(o.Against, o.Variable, record.Grid);
         // the reference in the candidate's units (K against degC, g/kg against kg kg-1)
-        using var observed = o.Reference is { Count: > 0 } ? GridRecord.Open(o.Reference, o.Variable, record.Units, o.EarthRadius) : null;
+        using var observed = o.Reference is { Count: > 0 } ? GridRecord.Open(o.Reference, o.Variable, record.Units, o.EarthRadius, o.Selection) : null;
         List<FramePair> pairs;
         List<(CfTime Earlier, CfTime Later)> skipped = [];
         if (observed is not null) pairs = record.SharedTimes(observed);

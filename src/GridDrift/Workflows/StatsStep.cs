@@ -24,7 +24,11 @@ internal sealed record StatsOptions(
     string Command = "griddrift stats",
     int Workers = 0,
     string? Units = null,
-    FrameSlice? Slice = null);
+    FrameSlice? Slice = null)
+{
+    /// <summary>Which frames of the record to read (`--period`; [input] period).</summary>
+    public FrameSelection Selection { get; init; } = FrameSelection.All;
+}
 
 /// <summary>What a stats run did, for the summary line and for tests.</summary>
 internal sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionMask Mask, IReadOnlyList<string> Warnings);
@@ -38,7 +42,7 @@ internal static class StatsStep
 {
     public static StatsSummary Run(StatsOptions o, IProgress<(int Done, int Total)>? progress = null)
     {
-        using var record = GridRecord.Open(o.Inputs, o.Variable, o.Units, o.EarthRadius);
+        using var record = GridRecord.Open(o.Inputs, o.Variable, o.Units, o.EarthRadius, o.Selection);
         var regions = record.Regions([.. o.Regions]);
         var statistics = GridRecord.StatisticsOf(o.Statistics);
         var slice = o.Slice ?? FrameSlice.Whole(record.FrameCount);
