@@ -30,11 +30,13 @@ public static class AnomaliesCommand
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var period = CommonOptions.Period();
+        var level = CommonOptions.Level();
+        var at = CommonOptions.At();
         var json = CommandJson.Option();
         var command = new Command("anomalies", "Anomalies of every frame from its climatology slot: absolute, relative or standardized, as fields and region series.\n\n" +
             "Example:\n  griddrift anomalies cf-samples/tcwv_synthetic_2031.nc --var tcwv --climatology clim.nc --out anom.nc --regions global bands:30 --table anom.parquet")
         {
-            files, variable, climatology, kind, output, regions, table, series, minValid, format, deflate, shuffle, units, quiet, json, period,
+            files, variable, climatology, kind, output, regions, table, series, minValid, format, deflate, shuffle, units, quiet, json, period, level, at,
         };
         command.SetAction(parse =>
         {
@@ -47,7 +49,7 @@ public static class AnomaliesCommand
             var options = new AnomaliesOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(climatology)!, anomalyKind,
                 parse.GetValue(output)!, regionSpecs, parse.GetValue(table), parse.GetValue(series), parse.GetValue(minValid),
                 null, CommonOptions.CommandLine("anomalies", commandLine)) with { Units = parse.GetValue(units) };
-            options = options with { Selection = CommonOptions.SelectionOf(parse, period) };
+            options = options with { Selection = CommonOptions.SelectionOf(parse, period, level, at) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => options.Output is null ? AnomaliesStep.Run(options, progress)
                 : CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => AnomaliesStep.Run(options with { Output = path, Format = variant, Series = options.Series ?? (options.Regions is { Count: > 0 } ? AnomaliesStep.DefaultSeriesPath(options.Output) : null) }, progress)));
             var err = parse.InvocationConfiguration.Error;

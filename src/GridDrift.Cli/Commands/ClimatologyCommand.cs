@@ -26,11 +26,13 @@ public static class ClimatologyCommand
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var period = CommonOptions.Period();
+        var level = CommonOptions.Level();
+        var at = CommonOptions.At();
         var json = CommandJson.Option();
         var command = new Command("climatology", "Climatological mean, standard deviation and sample count per cell and slot (CF Conventions §7.4).\n\n" +
             "Example:\n  griddrift climatology cf-samples/tcwv_synthetic_2031.nc --var tcwv --by month --out clim.nc")
         {
-            files, variable, by, basePeriod, smooth, output, format, deflate, shuffle, units, quiet, json, period,
+            files, variable, by, basePeriod, smooth, output, format, deflate, shuffle, units, quiet, json, period, level, at,
         };
         command.SetAction(parse =>
         {
@@ -39,7 +41,7 @@ public static class ClimatologyCommand
                 ?? throw new BadInputException(null, null, $"--by {parse.GetValue(by)}: choose month, day-of-year or hour-by-month");
             var options = new ClimatologyOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, kind, parse.GetValue(output)!,
                 parse.GetValue(basePeriod), parse.GetValue(smooth), null, CommonOptions.CommandLine("climatology", commandLine)) with { Units = parse.GetValue(units) };
-            options = options with { Selection = CommonOptions.SelectionOf(parse, period) };
+            options = options with { Selection = CommonOptions.SelectionOf(parse, period, level, at) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => ClimatologyStep.Run(options with { Output = path, Format = variant }, progress)));
             var err = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) err.WriteLine($"griddrift climatology: warning: {w}");

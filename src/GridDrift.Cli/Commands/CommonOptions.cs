@@ -61,8 +61,21 @@ internal static class CommonOptions
         Description = "read only the frames from START (included) to END (excluded), ISO 8601 in the record's calendar; either end may be .. (e.g. 2031-03/2031-06, 2031-03-01/..)",
     }.Accepts(v => { if (v is not null) GridDrift.Conventions.Time.RecordWindow.Parse(v); });
 
-    public static GridDrift.Frames.FrameSelection SelectionOf(System.CommandLine.ParseResult parse, Option<string?> period) =>
-        GridDrift.Frames.FrameSelection.Of(parse.GetValue(period));
+    /// <summary>`--level VALUE[UNITS]`: the level of the CF vertical coordinate, converted into its units.</summary>
+    public static Option<string?> Level() => new Option<string?>("--level")
+    {
+        Description = "read the frames at this level of the vertical coordinate (axis Z, pressure or height units), e.g. 300hPa, 850, 2m; units are converted",
+    }.Accepts(v => { if (v is not null) GridDrift.Frames.LevelValue.Parse(v); });
+
+    /// <summary>`--at DIM=VALUE` or `--at DIM#INDEX`: any other non-horizontal dimension fixed.</summary>
+    public static Option<string[]> At() => new Option<string[]>("--at")
+    {
+        Description = "fix another dimension (ensemble member, band): DIMENSION=VALUE on its coordinate, or DIMENSION#INDEX from 0; repeatable",
+        AllowMultipleArgumentsPerToken = false,
+    }.Accepts(v => { foreach (var a in v ?? []) GridDrift.Frames.DimensionPick.Parse(a); });
+
+    public static GridDrift.Frames.FrameSelection SelectionOf(System.CommandLine.ParseResult parse, Option<string?> period, Option<string?> level, Option<string[]> at) =>
+        GridDrift.Frames.FrameSelection.Of(parse.GetValue(period), parse.GetValue(level), parse.GetValue(at));
 
     public static Option<bool> Quiet() => new("--quiet") { Description = "no progress or summary on stderr" };
 

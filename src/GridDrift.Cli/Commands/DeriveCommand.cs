@@ -25,11 +25,13 @@ public static class DeriveCommand
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var period = CommonOptions.Period();
+        var level = CommonOptions.Level();
+        var at = CommonOptions.At();
         var json = CommandJson.Option();
         var command = new Command("derive", "Derive a quantity from model output: total column water vapour from specific humidity on pressure levels, relative humidity, or specific humidity from the dew point.\n\n" +
             "Example:\n  griddrift derive column-water-vapour cf-samples/q_levels_noleap_2031.nc --out tcwv.nc")
         {
-            quantity, files, variable, temperature, pressure, surface, output, format, deflate, shuffle, units, quiet, json, period,
+            quantity, files, variable, temperature, pressure, surface, output, format, deflate, shuffle, units, quiet, json, period, level, at,
         };
         command.SetAction(parse =>
         {
@@ -37,7 +39,7 @@ public static class DeriveCommand
             var options = new DeriveOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(quantity)!, parse.GetValue(output)!, parse.GetValue(variable),
                 parse.GetValue(surface), null, CommonOptions.CommandLine("derive", commandLine),
                 parse.GetValue(temperature), parse.GetValue(pressure), parse.GetValue(units));
-            options = options with { Selection = CommonOptions.SelectionOf(parse, period) };
+            options = options with { Selection = CommonOptions.SelectionOf(parse, period, level, at) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => DeriveStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift derive: {Counted.Of(summary.Frames, "frame")} of {summary.Variable} from {Counted.Of(summary.Levels, "level")} written to {options.Output}");

@@ -27,18 +27,20 @@ public static class RegridCommand
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var period = CommonOptions.Period();
+        var level = CommonOptions.Level();
+        var at = CommonOptions.At();
         var json = CommandJson.Option();
         var command = new Command("regrid", "Remap fields onto another latitude-longitude grid, conservatively (exact overlap areas) or bilinearly.\n\n" +
             "Example:\n  griddrift regrid cf-samples/tcwv_synthetic_2031.nc --var tcwv --to regular:10 --method conservative --out tcwv_10deg.nc")
         {
-            files, variable, to, method, output, calendar, resample, weights, format, deflate, shuffle, units, quiet, json, period,
+            files, variable, to, method, output, calendar, resample, weights, format, deflate, shuffle, units, quiet, json, period, level, at,
         };
         command.SetAction(parse =>
         {
             var clock = System.Diagnostics.Stopwatch.StartNew();
             var options = new RegridOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(to)!, parse.GetValue(method)!,
                 parse.GetValue(output)!, null, CommonOptions.CommandLine("regrid", commandLine), parse.GetValue(calendar), parse.GetValue(resample), parse.GetValue(weights)) with { Units = parse.GetValue(units) };
-            options = options with { Selection = CommonOptions.SelectionOf(parse, period) };
+            options = options with { Selection = CommonOptions.SelectionOf(parse, period, level, at) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => RegridStep.Run(options with { Output = path, Format = variant }, progress)));
             if (!parse.GetValue(quiet))
                 parse.InvocationConfiguration.Error.WriteLine($"griddrift regrid: {Counted.Of(summary.Frames, "frame")} onto {summary.Target.Rows} × {summary.Target.Columns} ({Counted.Of(summary.Weights.Column.Length, "weight")}{(summary.WeightsReused ? ", read from " + options.Weights : "")}), {summary.Written} written to {options.Output}" + (summary.Dropped > 0 ? $"; {Counted.Of(summary.Dropped, "frame")} dropped (dates the target calendar lacks)" : ""));

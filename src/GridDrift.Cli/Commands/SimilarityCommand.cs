@@ -34,12 +34,14 @@ public static class SimilarityCommand
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var period = CommonOptions.Period();
+        var level = CommonOptions.Level();
+        var at = CommonOptions.At();
         var json = CommandJson.Option();
         var command = new Command("similarity", "Frame-to-frame structural similarity (SSIM, VIF), correlation, RMS difference and mean absolute change per region.\n\n" +
             "Example:\n  griddrift similarity cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --metric ssim,vif,corr,rmsd,mean-abs-change --out sim.nc --table sim.parquet\n" +
             "  griddrift similarity --reference obs.nc --candidate model_on_obs_grid.nc --var tcwv --regions global --metric bias,rmsd,corr,ssim --out compare.nc")
         {
-            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, deflate, shuffle, units, quiet, json, period,
+            files, referenceFiles, candidateFiles, variable, regions, metric, lag, range, acrossGaps, against, minValid, output, table, radius, format, deflate, shuffle, units, quiet, json, period, level, at,
         };
         command.SetAction(parse =>
         {
@@ -64,7 +66,7 @@ public static class SimilarityCommand
                 parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(lag), parse.GetValue(range), parse.GetValue(acrossGaps), parse.GetValue(against),
                 parse.GetValue(minValid), parse.GetValue(radius), null, CommonOptions.CommandLine("similarity", commandLine),
                 Reference: reference.Length > 0 ? InputPaths.Expand(reference) : null, Units: parse.GetValue(units));
-            options = options with { Selection = CommonOptions.SelectionOf(parse, period) };
+            options = options with { Selection = CommonOptions.SelectionOf(parse, period, level, at) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "pairs", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => SimilarityStep.Run(options with { Output = path, Format = variant }, progress)));
             var error = parse.InvocationConfiguration.Error;
             foreach (var w in summary.Warnings) error.WriteLine($"griddrift similarity: warning: {w}");

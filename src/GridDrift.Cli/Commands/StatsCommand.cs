@@ -28,11 +28,13 @@ public static class StatsCommand
         var units = CommonOptions.Units();
         var quiet = CommonOptions.Quiet();
         var period = CommonOptions.Period();
+        var level = CommonOptions.Level();
+        var at = CommonOptions.At();
         var json = CommandJson.Option();
         var command = new Command("stats", "Area-weighted mean, standard deviation, minimum, maximum, quantiles and valid fraction per frame and region.\n\n" +
             "Example:\n  griddrift stats cf-samples/tcwv_synthetic_2031.nc --var tcwv --regions global bands:30 --out s.nc --table s.parquet")
         {
-            files, variable, regions, stat, minValid, output, table, radius, format, deflate, shuffle, units, quiet, json, period,
+            files, variable, regions, stat, minValid, output, table, radius, format, deflate, shuffle, units, quiet, json, period, level, at,
         };
         command.SetAction(parse =>
         {
@@ -49,7 +51,7 @@ public static class StatsCommand
             var options = new StatsOptions(InputPaths.Expand(parse.GetValue(files)!), parse.GetValue(variable)!, parse.GetValue(regions)!,
                 statistics, parse.GetValue(output)!, parse.GetValue(table), parse.GetValue(minValid), parse.GetValue(radius),
                 null, CommonOptions.CommandLine("stats", commandLine)) with { Units = parse.GetValue(units) };
-            options = options with { Selection = CommonOptions.SelectionOf(parse, period) };
+            options = options with { Selection = CommonOptions.SelectionOf(parse, period, level, at) };
             var summary = ProgressDisplay.Run(parse.InvocationConfiguration.Error, parse.GetValue(quiet), "frames", progress => CommonOptions.FormatOf(parse, format, deflate, shuffle).Write(options.Output, (path, variant) => StatsStep.Run(options with { Output = path, Format = variant }, progress)));
             foreach (var w in summary.Warnings) parse.InvocationConfiguration.Error.WriteLine($"griddrift stats: warning: {w}");
             if (!parse.GetValue(quiet))

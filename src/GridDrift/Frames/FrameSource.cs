@@ -43,10 +43,18 @@ internal sealed class FrameSource : IDisposable
     public IDatasetReader Template => _parts[0].Reader;
     public VariableAxes Axes { get; }
 
-    FrameSource(string variable, Part[] parts, List<string> warnings)
+    /// <summary>The dimensions fixed by the selection (a level, a member): each with its coordinate variable where there is one, its index and its value.</summary>
+    public IReadOnlyList<FixedDimension> Fixed { get; }
+    readonly int[] _fixedIndex; // per dimension of the variable: -1 free, else the index it is fixed at
+
+    public sealed record FixedDimension(string Dimension, int Index, NcVariable? Coordinate, double? Value);
+
+    FrameSource(string variable, Part[] parts, List<string> warnings, IReadOnlyList<FixedDimension> fixedDimensions)
     {
         VariableName = variable;
         _parts = parts;
+        Fixed = fixedDimensions;
+        _fixedIndex = parts[0].Variable.Dimensions.Select(d => fixedDimensions.FirstOrDefault(f => f.Dimension == d.Name)?.Index ?? -1).ToArray();
         // the earliest file is the template: its axes, not those of the file named first
         Axes = parts[0].Axes;
         Files = parts.Select(p => p.Reader.Path).ToList();
@@ -62,7 +70,7 @@ internal sealed class FrameSource : IDisposable
         Calendar = parts[0].Time.Calendar;
         TimeUnits = parts[0].Time.Units;
         var first = parts[0];
-        FrameDimensions = first.Variable.Dimensions.Where((_, d) => d != first.TimeDimension).ToList();
+        FrameDimensions = first.Variable.Dimensions.Where((_, d) => d != first.TimeDimension && _fixedIndex[d] < 0).ToList();
         FrameLength = checked((int)FrameDimensions.Aggregate(1L, (n, d) => n * d.Length));
         Step = TimeStep.Infer(times);
         Gaps = TimeGap.Find(times, Step);
@@ -109,14 +117,73 @@ internal sealed class FrameSource : IDisposable
             }
             var ordered = parts.OrderBy(p => p.Time.Times.Length == 0 ? long.MaxValue : p.Time.Times[0].Micros).ToArray();
             CheckConsistent(ordered, variable);
+            var fixedDimensions = FixedBy(ordered[0], selection, variable);
             if (selection?.Period is { } period) ordered = Within(ordered, period, variable);
-            return new FrameSource(variable, ordered, warnings);
+            return new FrameSource(variable, ordered, warnings, fixedDimensions);
         }
         catch
         {
             foreach (var p in parts) p.Reader.Dispose();
             throw;
         }
+    }
+
+    /// <summary>
+    /// The dimensions the selection fixes, resolved on the earliest file (every file has the same
+    /// frame dimensions and coordinates, checked before): the vertical level by value, converted
+    /// into the coordinate's units, and any other non-horizontal dimension by value or index.
+    /// </summary>
+    static List<FixedDimension> FixedBy(Part part, FrameSelection? selection, string variable)
+    {
+        var result = new List<FixedDimension>();
+        if (selection is null) return result;
+        var v = part.Variable;
+        string path = part.Reader.Path;
+        if (selection.Level is { } levelText)
+        {
+            int d = part.Axes.IndexOf(AxisRole.Vertical);
+            if (d < 0)
+                throw new BadInputException(path, variable, $"--level {levelText}: the variable has no vertical coordinate (its dimensions are {string.Join(", ", v.Dimensions.Select(x => x.Name))})");
+            var coordinate = part.Axes.DimensionCoordinates[d]!;
+            string units = coordinate.Attributes.Text("units") ?? "1";
+            var level = LevelValue.Parse(levelText);
+            double target = level.Value;
+            if (level.Units is { } given)
+            {
+                try { target = GridDrift.Conventions.Units.UnitConverter.Between(given, units).Convert(target); }
+                catch (FormatException e) { throw new BadInputException(path, coordinate.Name, $"--level {levelText}: {e.Message}"); }
+            }
+            var values = part.Reader.ReadAllDoubles(coordinate);
+            int index = Array.FindIndex(values, x => Math.Abs(x - target) <= 1e-6 * Math.Max(1, Math.Abs(target)));
+            if (index < 0)
+                throw new BadInputException(path, coordinate.Name, $"--level {levelText}: no such level; the levels are {string.Join(", ", values.Select(x => x.ToString("G6", System.Globalization.CultureInfo.InvariantCulture)))} {units}");
+            result.Add(new FixedDimension(v.Dimensions[d].Name, index, coordinate, values[index]));
+        }
+        foreach (var text in selection.At ?? [])
+        {
+            var pick = DimensionPick.Parse(text);
+            int d = v.Dimensions.ToList().FindIndex(x => x.Name == pick.Dimension);
+            if (d < 0 || d == part.TimeDimension || part.Axes.DimensionRoles[d] is AxisRole.Latitude or AxisRole.Longitude or AxisRole.ProjectionX or AxisRole.ProjectionY)
+                throw new BadInputException(path, variable, $"--at {text}: '{pick.Dimension}' is not one of the variable's non-horizontal, non-time dimensions ({string.Join(", ", v.Dimensions.Where((_, k) => k != part.TimeDimension).Select(x => x.Name))})");
+            if (result.Any(f => f.Dimension == pick.Dimension)) throw new BadInputException(path, variable, $"--at {text}: '{pick.Dimension}' is fixed twice");
+            var coordinate = part.Axes.DimensionCoordinates[d];
+            double[]? values = coordinate is not null && NcTypes.IsNumeric(coordinate.Type) ? part.Reader.ReadAllDoubles(coordinate) : null;
+            int index;
+            if (pick.Index is { } i)
+            {
+                if (i >= v.Dimensions[d].Length) throw new BadInputException(path, variable, $"--at {text}: '{pick.Dimension}' has {v.Dimensions[d].Length} entries (#0 to #{v.Dimensions[d].Length - 1})");
+                index = i;
+            }
+            else
+            {
+                if (values is null) throw new BadInputException(path, variable, $"--at {text}: '{pick.Dimension}' has no coordinate variable: pick by index, {pick.Dimension}#N");
+                double target = pick.Value!.Value;
+                index = Array.FindIndex(values, x => Math.Abs(x - target) <= 1e-6 * Math.Max(1, Math.Abs(target)));
+                if (index < 0) throw new BadInputException(path, coordinate!.Name, $"--at {text}: no such value; the values are {string.Join(", ", values.Select(x => x.ToString("G6", System.Globalization.CultureInfo.InvariantCulture)))}");
+            }
+            result.Add(new FixedDimension(pick.Dimension, index, values is null ? null : coordinate, values?[index]));
+        }
+        return result;
     }
 
     /// <summary>Only the frames inside the window; files with none are closed. Times are sorted, so each file keeps one run.</summary>
@@ -262,7 +329,7 @@ internal sealed class FrameSource : IDisposable
     /// </summary>
     public MappedFrames? TryMap()
     {
-        if (_convert is not null) return null;
+        if (_convert is not null || Fixed.Count > 0) return null;
         var pieces = new MappedFrames.Piece[_parts.Length];
         float? shared = null;
         for (int p = 0; p < _parts.Length; p++)
@@ -294,7 +361,11 @@ internal sealed class FrameSource : IDisposable
         int rank = part.Variable.Rank;
         Span<long> start = stackalloc long[rank];
         Span<long> count = stackalloc long[rank];
-        for (int d = 0; d < rank; d++) count[d] = part.Variable.Dimensions[d].Length;
+        for (int d = 0; d < rank; d++)
+        {
+            if (_fixedIndex[d] >= 0) { start[d] = _fixedIndex[d]; count[d] = 1; }
+            else count[d] = part.Variable.Dimensions[d].Length;
+        }
         start[part.TimeDimension] = index - _partStart[p] + part.First;
         count[part.TimeDimension] = 1;
 

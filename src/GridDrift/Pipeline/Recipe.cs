@@ -30,7 +30,7 @@ internal sealed class Recipe
     /// <summary>The keys of each table: [input] and [report] have their own; every step's are its command's options (Workflows/Options).</summary>
     public static readonly IReadOnlyDictionary<string, string[]> Allowed = new Dictionary<string, string[]>
     {
-        ["input"] = ["files", "variable", "regions", "out", "period", RecipeRunner.WriteOutside],
+        ["input"] = ["files", "variable", "regions", "out", "period", "level", "at", RecipeRunner.WriteOutside],
         ["stats"] = Names(StatsKeys.All),
         ["similarity"] = Names(SimilarityKeys.All),
         ["climatology"] = Names(ClimatologyKeys.All),

@@ -35,7 +35,8 @@ internal static class RecipeRunner
         public GridDrift.Frames.FrameSelection Selection => SelectionOf(Recipe);
     }
 
-    internal static GridDrift.Frames.FrameSelection SelectionOf(Recipe r) => GridDrift.Frames.FrameSelection.Of(r.OptionalText("input", "period"));
+    internal static GridDrift.Frames.FrameSelection SelectionOf(Recipe r) =>
+        GridDrift.Frames.FrameSelection.Of(r.OptionalText("input", "period"), r.OptionalText("input", "level"), r.List("input", "at", []));
 
     /// <summary>The steps in the order they run.</summary>
     static readonly RecipeStep[] Steps =
@@ -130,8 +131,9 @@ internal static class RecipeRunner
             if (first.FindVariable(variable) is null)
                 throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "variable"), "input.variable",
                     $"{inputs[0]} has no variable '{variable}' (it has: {string.Join(", ", first.Variables.Select(v => v.Name))})");
-        try { SelectionOf(recipe); }
-        catch (FormatException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "period"), "input.period", e.Message); }
+        foreach (var key in new[] { "period", "level", "at" })
+            try { GridDrift.Frames.FrameSelection.Of(key == "period" ? recipe.OptionalText("input", key) : null, key == "level" ? recipe.OptionalText("input", key) : null, key == "at" ? recipe.List("input", key, []) : null); }
+            catch (FormatException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", key), "input." + key, e.Message); }
         try { GridDrift.Regions.RegionSpecs.ParseInput(recipe.List("input", "regions", ["global"])); }
         catch (BadInputException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "regions"), "input.regions", e.Fault); }
         foreach (var step in Steps.Where(s => recipe.Has(s.Name))) step.Check(recipe);

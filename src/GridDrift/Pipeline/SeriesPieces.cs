@@ -42,7 +42,9 @@ internal static class SeriesPieces
         foreach (var (k, v) in extraAttributes) attributes[k] = v;
         var sums = inputs.Select(f => known.TryGetValue(f, out var sum) ? sum : ChecksumCache.Sha256(f)).ToList();
         var provenance = new Provenance(command, inputs, sums, DateTime.UtcNow);
-        var layout = new SeriesLayout(sourceVariable, shape.Regions, shape.Areas, shape.Quantities, shape.TimeUnits, shape.Calendar, provenance, attributes, shape.HasBounds);
+        List<ScalarCoordinate> scalars;
+        using (var piece0 = DatasetFiles.Open(pieces[0])) scalars = GridDrift.Products.ProductScalars.Of(piece0, piece0.RequireVariable(shape.Quantities[0].Name));
+        var layout = new SeriesLayout(sourceVariable, shape.Regions, shape.Areas, shape.Quantities, shape.TimeUnits, shape.Calendar, provenance, attributes, shape.HasBounds, scalars);
 
         int nq = shape.Quantities.Count, nr = shape.Regions.Length, steps = 0;
         var values = new double[nq * nr];

@@ -18,7 +18,8 @@ public sealed record SeriesLayout(
     string CalendarAttribute,
     Provenance Provenance,
     IReadOnlyDictionary<string, string> Attributes,
-    bool HasTimeBounds = false);
+    bool HasTimeBounds = false,
+    IReadOnlyList<ScalarCoordinate>? Scalars = null);
 
 /// <summary>Where series time steps go as they are computed, in time order.</summary>
 public interface ISeriesSink : IDisposable

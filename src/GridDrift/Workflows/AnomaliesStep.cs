@@ -95,7 +95,7 @@ internal static class AnomaliesStep
             string quantity = o.Kind == AnomalyKind.Absolute ? "anomaly" : o.Kind.Name() + "_anomaly";
             var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea,
                 [new SeriesQuantity(quantity, "area-weighted mean of the " + longName, anomalyUnits, "area: mean")],
-                source.TimeUnits, calendarAttribute0, provenance, extra);
+                source.TimeUnits, calendarAttribute0, provenance, extra, Scalars: SelectionScalars.Of(source));
             series = new SeriesProducts(seriesPath, o.Table, layout, o.Format);
         }
         try

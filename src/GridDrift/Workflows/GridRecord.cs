@@ -51,8 +51,8 @@ public sealed class GridRecord : IDisposable
             var grid = GridReader.Read(source.Template, source.Axes, earthRadius);
             if (source.FrameLength != grid.CellCount)
                 throw new BadInputException(source.Files[0], variable,
-                    $"frames have {source.FrameLength} values but the grid has {grid.CellCount} cells: dimensions other than time, latitude and longitude " +
-                    $"({string.Join(", ", source.FrameDimensions.Select(d => $"{d.Name} = {d.Length}"))}) are not supported here yet");
+                    $"frames have {source.FrameLength} values but the grid has {grid.CellCount} cells: fix the dimensions other than time, latitude and longitude " +
+                    $"({string.Join(", ", source.FrameDimensions.Where(d => !IsHorizontal(source, d.Name)).Select(d => $"{d.Name} = {d.Length}"))}) with --level VALUE[UNITS] (the vertical coordinate) or --at DIMENSION=VALUE / DIMENSION#INDEX");
             return new GridRecord(source, grid);
         }
         catch
@@ -114,7 +114,7 @@ public sealed class GridRecord : IDisposable
                 ["earth_radius_m"] = Grid.EarthRadius.ToString("R", CultureInfo.InvariantCulture),
                 ["min_valid"] = minValid.ToString("R", CultureInfo.InvariantCulture),
                 ["quantile_definition"] = "area-weighted, tied values as one atom, Hazen plotting positions (Hyndman & Fan 1996 definition 5 for equal weights without ties)",
-            });
+            }, Scalars: Scalars);
 
     /// <summary>
     /// Frame-to-frame similarity per region: each frame against the one <paramref name="lag"/>
@@ -185,7 +185,17 @@ public sealed class GridRecord : IDisposable
                 ["vif_domain"] = "pixel-domain multi-scale VIF on each region's bounding index box, values rescaled to 0-255 over the data range",
                 ["skipped_pairs"] = skipped.Count == 0 ? "none" : string.Join("; ", skipped.Select(s => $"{s.Earlier.ToIsoString()}/{s.Later.ToIsoString()}")),
             },
-            HasTimeBounds: withBounds);
+            HasTimeBounds: withBounds, Scalars: Scalars);
+
+    static bool IsHorizontal(FrameSource source, string dimension)
+    {
+        int d = source.Axes.Data.Dimensions.ToList().FindIndex(x => x.Name == dimension);
+        return d >= 0 && source.Axes.DimensionRoles[d] is GridDrift.Conventions.Coordinates.AxisRole.Latitude or GridDrift.Conventions.Coordinates.AxisRole.Longitude
+            or GridDrift.Conventions.Coordinates.AxisRole.ProjectionX or GridDrift.Conventions.Coordinates.AxisRole.ProjectionY;
+    }
+
+    /// <summary>The dimensions the selection fixed (a level, a member), as CF scalar coordinates for the products.</summary>
+    public IReadOnlyList<ScalarCoordinate> Scalars => GridDrift.Workflows.SelectionScalars.Of(_source);
 
     /// <summary>
     /// The pair metrics of <paramref name="pairs"/> into any series sink: earlier frames from

@@ -50,18 +50,20 @@ internal sealed class SeriesNetCdfWriter : ISeriesSink
             _bounds = w.AddVariable("time_bnds", NcType.Double, [time, nv], [NcAttribute.Text("long_name", "times of the earlier and the later frame of the pair")]);
         }
         var names = w.AddVariable("region_name", NcType.Char, [region, nameLength], [NcAttribute.Text("long_name", "region name")]);
+        var scalars = (layout.Scalars ?? []).Select(c => (c.Value, Variable: w.AddVariable(c.Name, NcType.Double, [], ScalarCoordinates.Attributes(c)))).ToList();
+        string coordinates = string.Join(' ', ["region_name", .. (layout.Scalars ?? []).Select(c => c.Name)]);
         var areas = w.AddVariable("region_area", NcType.Double, [region],
             [NcAttribute.Text("long_name", "area of the region on the sphere"), NcAttribute.Text("units", "m2"), NcAttribute.Text("coordinates", "region_name")]);
         _quantities = layout.Quantities.Select(q => w.AddVariable(q.Name, NcType.Double, [time, region],
             new[]
             {
                 NcAttribute.Text("long_name", q.LongName), NcAttribute.Text("units", q.Units), NcAttribute.Text("cell_methods", q.CellMethods),
-                NcAttribute.Text("coordinates", "region_name"), NcAttribute.Of("_FillValue", double.NaN),
+                NcAttribute.Text("coordinates", coordinates), NcAttribute.Of("_FillValue", double.NaN),
             }.Where(a => a.AsText() != ""))).ToArray();
         _valid = w.AddVariable("valid_fraction", NcType.Double, [time, region],
         [
             NcAttribute.Text("long_name", "area with data / region area"), NcAttribute.Text("units", "1"),
-            NcAttribute.Text("coordinates", "region_name"), NcAttribute.Of("_FillValue", double.NaN),
+            NcAttribute.Text("coordinates", coordinates), NcAttribute.Of("_FillValue", double.NaN),
         ]);
         w.EndDefinitions();
         var nameBytes = new byte[layout.Regions.Count * strlen];
@@ -69,6 +71,7 @@ internal sealed class SeriesNetCdfWriter : ISeriesSink
             System.Text.Encoding.UTF8.GetBytes(layout.Regions[r]).CopyTo(nameBytes, r * strlen);
         w.Write<byte>(names, nameBytes);
         w.Write<double>(areas, layout.RegionAreas.ToArray());
+        foreach (var (value, variable) in scalars) w.Write<double>(variable, [value]);
         _row = new double[layout.Regions.Count];
     }
 
