@@ -33,7 +33,8 @@ public static class CliApp
 
     public static int Run(string[] args, TextWriter output, TextWriter error)
     {
-        var parse = BuildRoot(args).Parse(args);
+        // @LIST is a list of input files for GridDrift (paths relative to the list), not System.CommandLine's response file
+        var parse = BuildRoot(args).Parse(args, new ParserConfiguration { ResponseFileTokenReplacer = null });
         // [suggest:N] is System.CommandLine's completion directive, which the shell scripts of `griddrift completion` call
         bool asksForHelpOrVersion = args.Any(a => a is "--help" or "-h" or "-?" or "--version") || args is [['[', 's', 'u', 'g', ..], ..];
         if (!asksForHelpOrVersion && UsageErrors.Of(parse) is { Count: > 0 } usage)

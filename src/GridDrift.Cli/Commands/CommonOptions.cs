@@ -6,7 +6,7 @@ namespace GridDrift.Cli.Commands;
 internal static class CommonOptions
 {
     public static Argument<string[]> Files() =>
-        new("FILE") { Description = "input NetCDF files or globs, one record split along time", Arity = ArgumentArity.OneOrMore };
+        new("FILE") { Description = "input NetCDF files, globs or @LIST (a text file of paths, one a line): one record split along time, in any order; a file may hold one image with a scalar time coordinate", Arity = ArgumentArity.OneOrMore };
 
     public static Option<string> Variable() => new("--var") { Description = "the variable to analyse", Required = true };
 

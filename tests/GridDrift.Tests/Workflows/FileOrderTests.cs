@@ -1,4 +1,3 @@
-using GridDrift.Formats;
 using GridDrift.Tests.Support;
 
 namespace GridDrift.Tests.Workflows;
@@ -18,20 +17,7 @@ public class FileOrderTests
         return Enumerable.Range(1, parts).Select(k => dir.File($"{prefix}_{k}.nc")).ToArray();
     }
 
-    /// <summary>Every numeric variable of two products holds the same values (NaN where the other has NaN).</summary>
-    static void AssertSameProduct(string expected, string actual)
-    {
-        using var a = DatasetFiles.Open(expected);
-        using var b = DatasetFiles.Open(actual);
-        foreach (var v in a.Variables.Where(v => NcTypes.IsNumeric(v.Type)))
-        {
-            var x = a.ReadAllDoubles(v);
-            var y = b.ReadAllDoubles(b.RequireVariable(v.Name));
-            Assert.Equal(x.Length, y.Length);
-            for (int i = 0; i < x.Length; i++)
-                Assert.True(x[i].Equals(y[i]), $"{Path.GetFileName(actual)} {v.Name}[{i}]: {y[i]} against {x[i]} from the files in time order");
-        }
-    }
+    static void AssertSameProduct(string expected, string actual) => ProductComparison.AssertSameValues(expected, actual);
 
     [InteropTheory(Needs.PythonNetcdf)]
     [InlineData("stats", "--var tcwv --regions global bands:60")]
