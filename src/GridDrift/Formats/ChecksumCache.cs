@@ -54,18 +54,46 @@ internal static class ChecksumCache
         return sum;
     }
 
+    // the cache file's entries by key, read once and then only what was appended since: a record of
+    // tens of thousands of one-image files looks up as many checksums, and rereading the whole file
+    // for each made that quadratic
+    static readonly Dictionary<string, string> Index = new(StringComparer.Ordinal);
+    static string? _indexedFile;
+    static long _indexedBytes;
+
     static string? Lookup(string cache, string key)
     {
         try
         {
-            if (!File.Exists(cache)) return null;
-            string? found = null;
-            foreach (var line in File.ReadLines(cache))
-                if (line.Length > 65 && line[64] == '\t' && line.AsSpan(65).SequenceEqual(key)) found = line[..64];
-            return found;
+            lock (Gate)
+            {
+                var info = new FileInfo(cache);
+                if (!info.Exists) return null;
+                if (_indexedFile != cache || info.Length < _indexedBytes)
+                {
+                    Index.Clear();
+                    _indexedFile = cache;
+                    _indexedBytes = 0;
+                }
+                if (info.Length > _indexedBytes) ReadAppended(cache);
+                return Index.TryGetValue(key, out var sum) ? sum : null;
+            }
         }
         catch (IOException) { return null; }
         catch (UnauthorizedAccessException) { return null; }
+    }
+
+    /// <summary>Adds the whole lines appended since the last read; a line still being written is left for the next.</summary>
+    static void ReadAppended(string cache)
+    {
+        using var stream = new FileStream(cache, FileMode.Open, FileAccess.Read, FileShare.ReadWrite | FileShare.Delete);
+        stream.Position = _indexedBytes;
+        var bytes = new byte[stream.Length - _indexedBytes];
+        stream.ReadExactly(bytes);
+        int end = Array.LastIndexOf(bytes, (byte)'\n') + 1;
+        foreach (var line in System.Text.Encoding.UTF8.GetString(bytes, 0, end).Split('\n'))
+            if (line.Length > 65 && line[64] == '\t') Index[line[65..]] = line[..64];
+        _indexedBytes += end;
     }
 
     /// <summary>Keeps the newest entry of each file that still exists unchanged; written aside and renamed.</summary>
@@ -82,6 +110,8 @@ internal static class ChecksumCache
         string temp = cache + "." + Environment.ProcessId + ".part";
         File.WriteAllLines(temp, newest.Values);
         File.Move(temp, cache, overwrite: true);
+        Index.Clear();
+        _indexedBytes = 0;
     }
 
     static void Remember(string cache, string key, string sum)

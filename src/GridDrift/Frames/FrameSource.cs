@@ -187,11 +187,11 @@ internal sealed class FrameSource : IDisposable
             var v = reader.FindVariable(VariableName) ?? throw new BadInputException(part.Path, VariableName, "no longer holds the variable (the file changed while the record was read)");
             if (!v.Dimensions.Select(d => (d.Name, d.Length)).SequenceEqual(part.Variable.Dimensions.Select(d => (d.Name, d.Length))))
                 throw new BadInputException(part.Path, VariableName, "its dimensions changed while the record was read");
-            if (!_gridChecked[index])
+            if (!Volatile.Read(ref _gridChecked[index]))
             {
-                if (!SameCoordinates(Template, _parts[0], reader, part, out var why))
+                if (!SameCoordinates(TemplateCoordinates(), reader, part, out var why))
                     throw new BadInputException(part.Path, VariableName, $"grid differs from {_parts[0].Path}: {why}");
-                _gridChecked[index] = true;
+                Volatile.Write(ref _gridChecked[index], true);
             }
             return (reader, v);
         }
@@ -334,15 +334,30 @@ internal sealed class FrameSource : IDisposable
         return true;
     }
 
-    /// <summary>The 1-D coordinates of the frame dimensions hold the same values (to 1e-6 relative).</summary>
-    static bool SameCoordinates(IDatasetReader readerA, Part a, IDatasetReader readerB, Part b, out string why)
+    /// <summary>The 1-D coordinate values of the frame dimensions in a file, by dimension name.</summary>
+    static Dictionary<string, double[]> Coordinates(IDatasetReader reader, Part part)
     {
-        foreach (var dim in a.Variable.Dimensions.Where((_, d) => d != a.TimeDimension))
+        var result = new Dictionary<string, double[]>();
+        foreach (var dim in part.Variable.Dimensions.Where((_, d) => d != part.TimeDimension))
+            if (reader.Variables.FirstOrDefault(v => v.Rank == 1 && v.Name == dim.Name) is { } c && NcTypes.IsNumeric(c.Type))
+                result[dim.Name] = reader.ReadAllDoubles(c);
+        return result;
+    }
+
+    Dictionary<string, double[]>? _templateCoordinates;
+    Dictionary<string, double[]> TemplateCoordinates() => _templateCoordinates ??= Coordinates(Template, _parts[0]);
+
+    static bool SameCoordinates(IDatasetReader readerA, Part a, IDatasetReader readerB, Part b, out string why) =>
+        SameCoordinates(Coordinates(readerA, a), readerB, b, out why);
+
+    /// <summary>The 1-D coordinates of the frame dimensions hold the same values (to 1e-6 relative).</summary>
+    static bool SameCoordinates(Dictionary<string, double[]> reference, IDatasetReader readerB, Part b, out string why)
+    {
+        foreach (var (name, xa) in reference)
         {
-            var ca = readerA.Variables.FirstOrDefault(v => v.Rank == 1 && v.Name == dim.Name);
-            var cb = readerB.Variables.FirstOrDefault(v => v.Rank == 1 && v.Name == dim.Name);
-            if (ca is null || cb is null || !NcTypes.IsNumeric(ca.Type) || !NcTypes.IsNumeric(cb.Type)) continue;
-            var xa = readerA.ReadAllDoubles(ca);
+            var cb = readerB.Variables.FirstOrDefault(v => v.Rank == 1 && v.Name == name);
+            if (cb is null || !NcTypes.IsNumeric(cb.Type)) continue;
+            var ca = cb;
             var xb = readerB.ReadAllDoubles(cb);
             for (int j = 0; j < Math.Min(xa.Length, xb.Length); j++)
                 if (Math.Abs(xa[j] - xb[j]) > 1e-6 * Math.Max(1, Math.Abs(xa[j])))

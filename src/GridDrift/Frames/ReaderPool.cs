@@ -10,10 +10,10 @@ namespace GridDrift.Frames;
 /// </summary>
 internal sealed class ReaderPool(Func<int, (IDatasetReader Reader, NcVariable Variable)> open, int capacity = 64) : IDisposable
 {
-    sealed class Entry(IDatasetReader reader, NcVariable variable)
+    // opened outside the pool's lock, so workers open different files at once
+    sealed class Entry(Func<(IDatasetReader Reader, NcVariable Variable)> open)
     {
-        public IDatasetReader Reader { get; } = reader;
-        public NcVariable Variable { get; } = variable;
+        public Lazy<(IDatasetReader Reader, NcVariable Variable)> Opened { get; } = new(open);
         public int Users;
         public long LastUse;
     }
@@ -25,18 +25,32 @@ internal sealed class ReaderPool(Func<int, (IDatasetReader Reader, NcVariable Va
     /// <summary>A reader of file <paramref name="part"/> and its variable, held until the lease is disposed.</summary>
     public Lease Rent(int part)
     {
+        Entry entry;
         lock (_gate)
         {
-            if (!_entries.TryGetValue(part, out var entry))
+            if (!_entries.TryGetValue(part, out entry!))
             {
-                var (reader, variable) = open(part);
-                entry = new Entry(reader, variable);
+                entry = new Entry(() => open(part));
                 _entries[part] = entry;
             }
             entry.Users++;
             entry.LastUse = ++_clock;
-            Evict(); // after taking it: the entry just opened is in use
-            return new Lease(this, part, entry.Reader, entry.Variable);
+            Evict(); // after taking it: the entry just added is in use
+        }
+        try
+        {
+            var (reader, variable) = entry.Opened.Value;
+            return new Lease(this, part, reader, variable);
+        }
+        catch
+        {
+            // a file that cannot be opened is not kept: the next reader of it tries again and reports the fault itself
+            lock (_gate)
+            {
+                entry.Users--;
+                if (_entries.TryGetValue(part, out var same) && ReferenceEquals(same, entry)) _entries.Remove(part);
+            }
+            throw;
         }
     }
 
@@ -55,7 +69,7 @@ internal sealed class ReaderPool(Func<int, (IDatasetReader Reader, NcVariable Va
         {
             var idle = _entries.Where(e => e.Key != 0 && e.Value.Users == 0).OrderBy(e => e.Value.LastUse).Select(e => (int?)e.Key).FirstOrDefault();
             if (idle is not { } key) return;
-            _entries[key].Reader.Dispose();
+            if (_entries[key].Opened.IsValueCreated) _entries[key].Opened.Value.Reader.Dispose();
             _entries.Remove(key);
         }
     }
@@ -64,7 +78,7 @@ internal sealed class ReaderPool(Func<int, (IDatasetReader Reader, NcVariable Va
     {
         lock (_gate)
         {
-            foreach (var e in _entries.Values) e.Reader.Dispose();
+            foreach (var e in _entries.Values.Where(e => e.Opened.IsValueCreated)) e.Opened.Value.Reader.Dispose();
             _entries.Clear();
         }
     }
