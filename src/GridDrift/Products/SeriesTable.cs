@@ -5,7 +5,7 @@ namespace GridDrift.Products;
 
 /// <summary>
 /// GridDrift's tidy Parquet series read back: columns time (ISO 8601 in the record's calendar),
-/// region, variable, quantity and value. The calendar comes from the file's `calendar` metadata
+/// region, variable, quantity, units (absent from tables of earlier versions) and value. The calendar comes from the file's `calendar` metadata
 /// (written by GridDrift), else standard.
 /// </summary>
 static class SeriesTable
@@ -26,6 +26,7 @@ static class SeriesTable
         var region = new List<string>();
         var variable = new List<string>();
         var quantity = new List<string>();
+        var units = new Dictionary<string, string>();
         var value = new List<double>();
         for (int g = 0; g < reader.RowGroupCount; g++)
         {
@@ -42,7 +43,13 @@ static class SeriesTable
             time.AddRange(Text("time"));
             region.AddRange(Text("region"));
             variable.AddRange(Text("variable"));
-            quantity.AddRange(Text("quantity"));
+            var quantities0 = Text("quantity");
+            quantity.AddRange(quantities0);
+            if (fields.Any(f => f.Name == "units"))
+            {
+                var unitsHere = Text("units");
+                for (int k = 0; k < rows; k++) units.TryAdd(quantities0[k], unitsHere[k]);
+            }
             var values = new double?[rows];
             group.ReadAsync<double>(Field("value"), values.AsMemory(), null, default).AsTask().GetAwaiter().GetResult();
             value.AddRange(values.Select(v => v ?? double.NaN));
@@ -65,7 +72,7 @@ static class SeriesTable
         return new SeriesFile
         {
             Path = path, Times = times.Select(p => p.Time).ToArray(), Regions = regions, Quantities = quantities,
-            SourceVariable = variable.FirstOrDefault() ?? "", Units = quantities.Keys.ToDictionary(q => q, _ => ""),
+            SourceVariable = variable.FirstOrDefault() ?? "", Units = quantities.Keys.ToDictionary(q => q, q => units.GetValueOrDefault(q, "")),
         };
     }
 }

@@ -43,7 +43,7 @@ internal static class PairReducer
             slot[0] = va > 0 && vb > 0 ? Math.Clamp(cov / Math.Sqrt(va * vb), -1, 1) : double.NaN;
             slot[1] = Math.Sqrt(sdd / sw);
             slot[2] = sabs / sw;
-            slot[3] = mask.RegionArea[r] > 0 ? sw / mask.RegionArea[r] : double.NaN;
+            slot[3] = ValidFraction.Of(sw, mask.RegionArea[r]);
             slot[4] = sd / sw;
         }
     }

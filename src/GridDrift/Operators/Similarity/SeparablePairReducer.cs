@@ -70,7 +70,7 @@ internal sealed class SeparablePairReducer
             slot[0] = va > 0 && vb > 0 ? Math.Clamp(cov / Math.Sqrt(va * vb), -1, 1) : double.NaN;
             slot[1] = Math.Sqrt(Math.Max(0, _box[7] / sw));
             slot[2] = _box[6] / sw;
-            slot[3] = regionArea[b] > 0 ? sw * r2 / regionArea[b] : double.NaN;
+            slot[3] = ValidFraction.Of(sw * r2, regionArea[b]);
             slot[4] = _box[8] / sw;
         }
     }

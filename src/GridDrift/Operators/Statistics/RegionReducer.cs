@@ -90,7 +90,7 @@ internal sealed class RegionReducer
                     RegionStatistic.Std => Math.Sqrt(variance),
                     RegionStatistic.Min => n > 0 ? min : double.NaN,
                     RegionStatistic.Max => n > 0 ? max : double.NaN,
-                    RegionStatistic.Valid => _mask.RegionArea[r] > 0 ? sw / _mask.RegionArea[r] : double.NaN,
+                    RegionStatistic.Valid => ValidFraction.Of(sw, _mask.RegionArea[r]),
                     _ => double.NaN,
                 };
             }
@@ -115,7 +115,7 @@ internal sealed class RegionReducer
                     RegionStatistic.Std => Math.Sqrt(m[2]),
                     RegionStatistic.Min => m[3],
                     RegionStatistic.Max => m[4],
-                    RegionStatistic.Valid => _mask.RegionArea[r] > 0 ? m[0] / _mask.RegionArea[r] : double.NaN,
+                    RegionStatistic.Valid => ValidFraction.Of(m[0], _mask.RegionArea[r]),
                     _ => double.NaN,
                 };
             }

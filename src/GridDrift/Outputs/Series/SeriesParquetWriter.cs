@@ -9,7 +9,7 @@ namespace GridDrift.Outputs.Series;
 /// The tidy Parquet table of DESIGN.md: one row per time × region × quantity with columns
 /// time (ISO 8601 text in the file's own calendar), time_utc (UTC timestamp in microseconds,
 /// null where the calendar is not a real-world one), time_value (the CF offset), region,
-/// variable, quantity, value (nullable), valid_fraction. Text columns are dictionary-encoded;
+/// variable, quantity, units (the quantity's), value (nullable), valid_fraction. Text columns are dictionary-encoded;
 /// pages are Zstd-compressed at the Optimal level; provenance goes into the file's key-value
 /// metadata. Rows are buffered and written a row group at a time, so memory stays bounded.
 /// Written under a temporary name and renamed when complete.
@@ -24,6 +24,7 @@ internal sealed class SeriesParquetWriter : ISeriesSink
     static readonly DataField<string> RegionField = new("region");
     static readonly DataField<string> VariableField = new("variable");
     static readonly DataField<string> QuantityField = new("quantity");
+    static readonly DataField<string> UnitsField = new("units");
     static readonly DataField<double?> ValueField = new("value");
     static readonly DataField<double> ValidField = new("valid_fraction");
 
@@ -32,7 +33,7 @@ internal sealed class SeriesParquetWriter : ISeriesSink
     readonly FileStream _stream;
     readonly ParquetWriter _writer;
     readonly SeriesLayout _layout;
-    readonly List<string> _time = new(), _region = new(), _variable = new(), _quantity = new();
+    readonly List<string> _time = new(), _region = new(), _variable = new(), _quantity = new(), _units = new();
     readonly List<DateTime?> _utc = new();
     readonly List<double> _timeValue = new(), _valid = new();
     readonly List<double?> _value = new();
@@ -44,9 +45,9 @@ internal sealed class SeriesParquetWriter : ISeriesSink
         _finalPath = Path.GetFullPath(path);
         _tempPath = Path.Combine(Path.GetDirectoryName(_finalPath)!, "." + Path.GetFileName(_finalPath) + "." + Guid.NewGuid().ToString("N")[..8] + ".part");
         _stream = new FileStream(_tempPath, FileMode.CreateNew, FileAccess.ReadWrite);
-        var schema = new ParquetSchema(TimeField, TimeUtcField, TimeValueField, RegionField, VariableField, QuantityField, ValueField, ValidField);
+        var schema = new ParquetSchema(TimeField, TimeUtcField, TimeValueField, RegionField, VariableField, QuantityField, UnitsField, ValueField, ValidField);
         var options = new ParquetOptions { CompressionMethod = CompressionMethod.Zstd, CompressionLevel = System.IO.Compression.CompressionLevel.Optimal };
-        foreach (var field in new DataField[] { TimeField, RegionField, VariableField, QuantityField })
+        foreach (var field in new DataField[] { TimeField, RegionField, VariableField, QuantityField, UnitsField })
             options.ColumnEncodingHints[field.Path.ToString()] = EncodingHint.Dictionary;
         _writer = ParquetWriter.CreateAsync(schema, _stream, options).GetAwaiter().GetResult();
         var metadata = new Dictionary<string, string>(layout.Provenance.AsKeyValues(layout.Attributes))
@@ -73,6 +74,7 @@ internal sealed class SeriesParquetWriter : ISeriesSink
                 _region.Add(_layout.Regions[r]);
                 _variable.Add(_layout.SourceVariable);
                 _quantity.Add(_layout.Quantities[q].Name);
+                _units.Add(_layout.Quantities[q].Units);
                 _value.Add(double.IsNaN(v) ? null : v);
                 _valid.Add(validFraction[r]);
             }
@@ -90,10 +92,11 @@ internal sealed class SeriesParquetWriter : ISeriesSink
             group.WriteAsync(RegionField, _region).GetAwaiter().GetResult();
             group.WriteAsync(VariableField, _variable).GetAwaiter().GetResult();
             group.WriteAsync(QuantityField, _quantity).GetAwaiter().GetResult();
+            group.WriteAsync(UnitsField, _units).GetAwaiter().GetResult();
             group.WriteAsync<double>(ValueField, _value.ToArray().AsMemory()).GetAwaiter().GetResult();
             group.WriteAsync<double>(ValidField, _valid.ToArray().AsMemory()).GetAwaiter().GetResult();
         }
-        foreach (var list in new System.Collections.IList[] { _time, _utc, _timeValue, _region, _variable, _quantity, _value, _valid }) list.Clear();
+        foreach (var list in new System.Collections.IList[] { _time, _utc, _timeValue, _region, _variable, _quantity, _units, _value, _valid }) list.Clear();
     }
 
     public void Complete()
