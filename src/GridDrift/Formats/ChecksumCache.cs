@@ -60,6 +60,7 @@ internal static class ChecksumCache
     static readonly Dictionary<string, string> Index = new(StringComparer.Ordinal);
     static string? _indexedFile;
     static long _indexedBytes;
+    static long _compactedBytes;
 
     static string? Lookup(string cache, string key)
     {
@@ -112,6 +113,7 @@ internal static class ChecksumCache
         File.Move(temp, cache, overwrite: true);
         Index.Clear();
         _indexedBytes = 0;
+        _compactedBytes = new FileInfo(cache).Length;
     }
 
     static void Remember(string cache, string key, string sum)
@@ -121,7 +123,8 @@ internal static class ChecksumCache
             lock (Gate)
             {
                 Directory.CreateDirectory(Path.GetDirectoryName(cache)!);
-                if (File.Exists(cache) && new FileInfo(cache).Length > MaxBytes) Compact(cache);
+                // compacted when twice as long as the live entries it held last time: a cache of many live entries is not rewritten on every append
+                if (File.Exists(cache) && new FileInfo(cache).Length > Math.Max(MaxBytes, 2 * _compactedBytes)) Compact(cache);
                 // one short appended line per entry: appends of this size do not interleave between processes
                 File.AppendAllText(cache, sum + "\t" + key + "\n");
             }
