@@ -17,25 +17,30 @@ internal static class RectilinearGrid
         var latEdges = latBounds is not null ? EdgesFromBounds(latBounds, lat.Length) : EdgesFromCentres(lat);
         for (int i = 0; i < latEdges.Length; i++) latEdges[i] = Math.Clamp(latEdges[i], -90, 90);
         var lonEdges = lonBounds is not null ? EdgesFromBounds(lonBounds, lon.Length) : EdgesFromCentres(lon);
+        return Assemble(lat, lon, radius, columnsFirst,
+            (j, i) => Math.Abs(Sphere.ZoneFactor(latEdges[j], latEdges[j + 1])) * Math.Abs(lonEdges[i + 1] - lonEdges[i]),
+            latEdges, lonEdges, null, null);
+    }
+
+    /// <summary>Centres and exact areas (R² times <paramref name="unitArea"/>, in degrees of longitude) of every cell, and the grid they make.</summary>
+    static Grid Assemble(double[] lat, double[] lon, double radius, bool columnsFirst, Func<int, int, double> unitArea,
+        double[]? latEdges, double[]? lonEdges, double[]? cornerLat, double[]? cornerLon)
+    {
         int ny = lat.Length, nx = lon.Length;
         var area = new double[ny * nx];
         var clat = new double[ny * nx];
         var clon = new double[ny * nx];
         for (int j = 0; j < ny; j++)
-        {
-            double band = Math.Abs(Sphere.ZoneFactor(latEdges[j], latEdges[j + 1]));
             for (int i = 0; i < nx; i++)
             {
                 int cell = j * nx + i;
-                area[cell] = radius * radius * band * Math.Abs(lonEdges[i + 1] - lonEdges[i]) * Math.PI / 180;
+                area[cell] = radius * radius * unitArea(j, i) * Math.PI / 180;
                 clat[cell] = lat[j];
                 clon[cell] = lon[i];
             }
-        }
-        var spacing = HorizontalGrid.FromAxes(lat, lon);
         return new Grid
         {
-            Kind = spacing.Kind,
+            Kind = HorizontalGrid.FromAxes(lat, lon).Kind,
             Rows = ny,
             Columns = nx,
             EarthRadius = radius,
@@ -44,6 +49,8 @@ internal static class RectilinearGrid
             CellArea = area,
             LatEdges = latEdges,
             LonEdges = lonEdges,
+            CornerLat = cornerLat,
+            CornerLon = cornerLon,
             ColumnsFirst = columnsFirst,
         };
     }
@@ -56,38 +63,20 @@ internal static class RectilinearGrid
     static Grid FromOwnBounds(double[] lat, double[] lon, double[] latBounds, double[] lonBounds, double radius, bool columnsFirst)
     {
         int ny = lat.Length, nx = lon.Length;
-        var area = new double[ny * nx];
-        var clat = new double[ny * nx];
-        var clon = new double[ny * nx];
+        double South(int j) => Math.Clamp(Math.Min(latBounds[2 * j], latBounds[2 * j + 1]), -90, 90);
+        double North(int j) => Math.Clamp(Math.Max(latBounds[2 * j], latBounds[2 * j + 1]), -90, 90);
+        double West(int i) => Math.Min(lonBounds[2 * i], lonBounds[2 * i + 1]);
+        double East(int i) => Math.Max(lonBounds[2 * i], lonBounds[2 * i + 1]);
         var cornerLat = new double[4 * ny * nx];
         var cornerLon = new double[4 * ny * nx];
         for (int j = 0; j < ny; j++)
-        {
-            double s = Math.Clamp(Math.Min(latBounds[2 * j], latBounds[2 * j + 1]), -90, 90), n = Math.Clamp(Math.Max(latBounds[2 * j], latBounds[2 * j + 1]), -90, 90);
             for (int i = 0; i < nx; i++)
             {
-                double w = Math.Min(lonBounds[2 * i], lonBounds[2 * i + 1]), e = Math.Max(lonBounds[2 * i], lonBounds[2 * i + 1]);
-                int cell = j * nx + i;
-                area[cell] = radius * radius * Sphere.ZoneFactor(s, n) * (e - w) * Math.PI / 180;
-                clat[cell] = lat[j];
-                clon[cell] = lon[i];
-                double[] la = [s, s, n, n], lo = [w, e, e, w];
-                for (int m = 0; m < 4; m++) { cornerLat[4 * cell + m] = la[m]; cornerLon[4 * cell + m] = lo[m]; }
+                int c = 4 * (j * nx + i);
+                (cornerLat[c], cornerLat[c + 1], cornerLat[c + 2], cornerLat[c + 3]) = (South(j), South(j), North(j), North(j));
+                (cornerLon[c], cornerLon[c + 1], cornerLon[c + 2], cornerLon[c + 3]) = (West(i), East(i), East(i), West(i));
             }
-        }
-        return new Grid
-        {
-            Kind = HorizontalGrid.FromAxes(lat, lon).Kind,
-            Rows = ny,
-            Columns = nx,
-            EarthRadius = radius,
-            CenterLat = clat,
-            CenterLon = clon,
-            CellArea = area,
-            CornerLat = cornerLat,
-            CornerLon = cornerLon,
-            ColumnsFirst = columnsFirst,
-        };
+        return Assemble(lat, lon, radius, columnsFirst, (j, i) => Sphere.ZoneFactor(South(j), North(j)) * (East(i) - West(i)), null, null, cornerLat, cornerLon);
     }
 
     /// <summary>Whether neighbouring cells share their edge (to a millionth of the axis' span).</summary>
