@@ -58,6 +58,21 @@ internal sealed class NcAttribute
         return values.Length > 0 ? values[0] : null;
     }
 
+    // global attributes of products whose values are numbers, kept as text in the steps' dictionaries
+    static readonly HashSet<string> NumericGlobals = ["earth_radius_m", "min_valid", "climatology_base_years"];
+    static readonly HashSet<string> IntegerGlobals = ["lag", "climatology_frames", "frames_of_record"];
+
+    /// <summary>A product's global attribute: a number where the attribute is one (earth_radius_m, min_valid, climatology_frames …), else text.</summary>
+    public static NcAttribute Global(string name, string value)
+    {
+        if (IntegerGlobals.Contains(name) && int.TryParse(value, NumberStyles.Integer, CultureInfo.InvariantCulture, out int i)) return Of(name, i);
+        if (NumericGlobals.Contains(name) && double.TryParse(value, NumberStyles.Float, CultureInfo.InvariantCulture, out double d)) return Of(name, d);
+        return Text(name, value);
+    }
+
+    /// <summary>Text of a text attribute, the invariant rendering of a numeric one: how the steps' attribute dictionaries hold both.</summary>
+    public string AsTextOrNumber() => AsText() ?? Render();
+
     /// <summary>The CDL-like rendering used by `describe` (numbers in invariant culture, text quoted).</summary>
     public string Render()
     {

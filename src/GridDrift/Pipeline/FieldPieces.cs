@@ -27,7 +27,7 @@ internal static class FieldPieces
             var dims = new Dictionary<string, NcDimension>();
             foreach (var d in first.Dimensions) dims[d.Name] = w.AddDimension(d.Name, d.IsUnlimited ? 0 : d.Length, d.IsUnlimited);
             foreach (var a in first.Attributes.Where(a => !globals.ContainsKey(a.Name))) w.AddAttribute(a);
-            foreach (var (k, v) in globals) w.AddAttribute(NcAttribute.Text(k, v));
+            foreach (var (k, v) in globals) w.AddAttribute(NcAttribute.Global(k, v));
             var definitions = first.Variables.Select(v => (Source: v, Target: w.AddVariable(v.Name, v.Type, v.Dimensions.Select(d => dims[d.Name]), v.Attributes))).ToList();
             w.EndDefinitions();
             var buffer = new byte[definitions.Select(d => Slab(d.Source)).DefaultIfEmpty(0).Max()];

@@ -26,8 +26,8 @@ internal static class SeriesPieces
         if (pieces.Count == 0) throw new BadInputException(null, null, "no series pieces to join");
         using var first = DatasetFiles.Open(pieces[0]);
         var shape = Shape.Of(first);
-        var attributes = first.Attributes.Where(a => a.Type == NcType.Char && !ProvenanceKeys.Contains(a.Name))
-            .ToDictionary(a => a.Name, a => a.AsText() ?? "", StringComparer.Ordinal);
+        var attributes = first.Attributes.Where(a => !ProvenanceKeys.Contains(a.Name))
+            .ToDictionary(a => a.Name, a => a.AsTextOrNumber(), StringComparer.Ordinal);
         var skipped = new List<string>();
         var known = new Dictionary<string, string>();
         foreach (var piece in pieces)

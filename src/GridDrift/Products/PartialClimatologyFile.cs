@@ -20,7 +20,7 @@ internal static class PartialClimatologyFile
         var slot = w.AddDimension("slot", state.Slots);
         var cell = w.AddDimension("cell", state.Cells);
         w.AddAttribute(NcAttribute.Text(Marker, "count, mean and M2 per slot and cell; merge with griddrift gather"));
-        foreach (var (k, v) in attributes) w.AddAttribute(NcAttribute.Text(k, v));
+        foreach (var (k, v) in attributes) w.AddAttribute(NcAttribute.Global(k, v));
         var count = w.AddVariable("count", NcType.Double, [slot, cell], [NcAttribute.Text("long_name", "number of valid samples")]);
         var mean = w.AddVariable("mean", NcType.Double, [slot, cell], [NcAttribute.Text("long_name", "running mean")]);
         var m2 = w.AddVariable("m2", NcType.Double, [slot, cell], [NcAttribute.Text("long_name", "sum of squared deviations from the mean")]);
@@ -48,6 +48,6 @@ internal static class PartialClimatologyFile
         reader.ReadDoubles(reader.RequireVariable("mean"), start, shape, part.Mean);
         reader.ReadDoubles(reader.RequireVariable("m2"), start, shape, part.M2);
         into.Merge(part);
-        return reader.Attributes.Where(a => a.Type == NcType.Char).ToDictionary(a => a.Name, a => a.AsText() ?? "", StringComparer.Ordinal);
+        return reader.Attributes.ToDictionary(a => a.Name, a => a.AsTextOrNumber(), StringComparer.Ordinal);
     }
 }

@@ -22,7 +22,7 @@ internal sealed class FieldNetCdfWriter : IDisposable
     {
         _template = template;
         Writer = ClassicWriter.Create(path, format);
-        foreach (var (k, v) in globals) Writer.AddAttribute(NcAttribute.Text(k, v));
+        foreach (var (k, v) in globals) Writer.AddAttribute(NcAttribute.Global(k, v));
         Time = timeLength < 0 ? Writer.AddDimension("time", 0, unlimited: true) : Writer.AddDimension("time", timeLength);
         foreach (var (name, length) in template.Dimensions) _dimensions[name] = Writer.AddDimension(name, length);
         foreach (var c in template.Variables)

@@ -28,7 +28,7 @@ internal static class MaskNetCdfWriter
             ["cover_method"] = grid.IsRectilinear
                 ? "exact lat-lon rectangle overlap for boxes; 8 x 8 area-weighted samples per cell for polygons"
                 : "8 x 8 samples per cell (bilinear in the cell's corners)",
-        })) w.AddAttribute(NcAttribute.Text(k, v));
+        })) w.AddAttribute(NcAttribute.Global(k, v));
         var region = w.AddDimension("region", mask.Count);
         var strlen = w.AddDimension("name_strlen", Math.Max(1, mask.Names.Max(n => System.Text.Encoding.UTF8.GetByteCount(n))));
         var starts = w.AddDimension("region_edges", mask.Count + 1);

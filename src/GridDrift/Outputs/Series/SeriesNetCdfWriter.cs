@@ -34,7 +34,7 @@ internal sealed class SeriesNetCdfWriter : ISeriesSink
         var region = w.AddDimension("region", layout.Regions.Count);
         int strlen = Math.Max(1, layout.Regions.Max(r => System.Text.Encoding.UTF8.GetByteCount(r)));
         var nameLength = w.AddDimension("name_strlen", strlen);
-        foreach (var (k, v) in layout.Provenance.AsKeyValues(layout.Attributes)) w.AddAttribute(NcAttribute.Text(k, v));
+        foreach (var (k, v) in layout.Provenance.AsKeyValues(layout.Attributes)) w.AddAttribute(NcAttribute.Global(k, v));
 
         var timeAttributes = new List<NcAttribute>
         {
