@@ -13,7 +13,7 @@ internal sealed class RegionMask
     /// <summary>Area of the cell inside the region, m².</summary>
     public required double[] AreaInside { get; init; }
     /// <summary>Fraction of the cell inside the region (AreaInside ÷ cell area).</summary>
-    public required float[] Fraction { get; init; }
+    public required double[] Fraction { get; init; }
     public required double[] RegionArea { get; init; }
     public required double EarthRadius { get; init; }
 

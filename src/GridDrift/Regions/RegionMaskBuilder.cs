@@ -21,7 +21,7 @@ internal static class RegionMaskBuilder
         var rowStart = new int[regions.Count + 1];
         var cells = new List<int>();
         var areas = new List<double>();
-        var fractions = new List<float>();
+        var fractions = new List<double>();
         var regionArea = new double[regions.Count];
         for (int r = 0; r < regions.Count; r++)
         {
@@ -40,7 +40,7 @@ internal static class RegionMaskBuilder
                 int cell = row * grid.Columns + column;
                 cells.Add(grid.FrameIndex(row, column));
                 areas.Add(area);
-                fractions.Add((float)Math.Min(1, area / grid.CellArea[cell]));
+                fractions.Add(Math.Min(1, area / grid.CellArea[cell]));
                 regionArea[r] += area;
             }
         }

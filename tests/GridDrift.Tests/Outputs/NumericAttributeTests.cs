@@ -22,6 +22,9 @@ public class NumericAttributeTests
         Assert.Matches(@"\t\t:min_valid = 0\.5 ;", Header("s.nc"));
         Assert.Matches(@"\t\t:lag = 1 ;", Header("sim.nc"));
         Assert.Matches(@"\t\t:climatology_frames = 40 ;", Header("clim.nc"));
+        // the mask's fractions are float64, so a thin sliver of a cell keeps its digits
+        Assert.Equal(0, CliRun.Run("regions", "--grid", input, "--regions", "box:b=-10,10,5,17", "--out", dir.File("mask.nc"), "--quiet").ExitCode);
+        Assert.Contains("\tdouble cell_fraction(", Header("mask.nc"));
 
         File.WriteAllText(dir.File("recipe.toml"), "[input]\nfiles = [\"in.nc\"]\nvariable = \"tcwv\"\nout = \"products\"\n\n[climatology]\nby = \"month\"\n");
         foreach (var shard in new[] { "1/2", "2/2" }) Assert.Equal(0, CliRun.Run("run", dir.File("recipe.toml"), "--shard", shard, "--quiet").ExitCode);

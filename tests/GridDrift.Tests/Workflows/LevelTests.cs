@@ -62,4 +62,18 @@ public class LevelTests
         var product = r.GetProperty("product").EnumerateArray().Select(e => e.GetDouble()).ToArray();
         for (int t = 0; t < expected.Length; t++) Assert.True(Math.Abs(expected[t] - product[t]) <= 1e-6 * Math.Abs(expected[t]));
     }
+
+    /// <summary>Field products record the level too: a climatology at 500 hPa has the scalar plev, named in its fields' coordinates (ncdump's reading).</summary>
+    [InteropFact(Needs.Ncdump)]
+    public void A_climatology_at_a_level_carries_the_scalar_coordinate()
+    {
+        using var dir = new TempFolder();
+        var outcome = CliRun.Run("climatology", Sample, "--var", "q", "--by", "month", "--level", "500hPa", "--out", dir.File("c.nc"), "--quiet");
+        Assert.True(outcome.ExitCode == 0, outcome.Stderr);
+        string dump = ExternalTools.Run("ncdump", $"-v plev \"{dir.File("c.nc")}\"").Stdout;
+        Assert.Contains("\tdouble plev ;", dump);
+        Assert.Contains("\t\tplev:standard_name = \"air_pressure\" ;", dump);
+        Assert.Contains("\t\tq:coordinates = \"plev\" ;", dump);
+        Assert.Contains(" plev = 500 ;", dump);
+    }
 }

@@ -55,8 +55,17 @@ internal sealed class FieldTemplate
         var copies = chosen.Select(v => Copy(reader, v)).ToList();
         if (source.Axes.GridMapping is { } gm)
             copies.Add(new CopiedVariable(gm.Name, [], gm.Attributes.Where(a => !Packing.Contains(a.Name)).Select(Classic).ToList(), [0]));
-        var dataAttributes = data.Attributes.Where(a => Descriptive.Contains(a.Name) && a.Name != "units").Select(Classic).ToList();
+        var dataAttributes = data.Attributes.Where(a => Descriptive.Contains(a.Name) && a.Name is not ("units" or "coordinates")).Select(Classic).ToList();
         dataAttributes.Add(NcAttribute.Text("units", source.Units));
+        // the dimensions the selection fixed (a level, a member) become CF scalar coordinates (CF §5.7), named in coordinates
+        var scalars = source.Fixed.Select(f => new CopiedVariable(f.Coordinate?.Name ?? f.Dimension, [],
+            f.Coordinate is { } c ? c.Attributes.Where(a => a.Name is "standard_name" or "long_name" or "units" or "positive" or "axis").Select(Classic).ToList()
+                : [NcAttribute.Text("long_name", $"index along {f.Dimension}")],
+            [f.Value ?? f.Index])).ToList();
+        copies.AddRange(scalars);
+        var coordinates = string.Join(' ', (data.Attributes.Text("coordinates") ?? "").Split(' ', StringSplitOptions.RemoveEmptyEntries)
+            .Where(n => reader.FindVariable(n) is { } v && v.Dimensions.All(d => frameDims.Contains(d.Name)) && v.Rank > 0).Concat(scalars.Select(x => x.Name)));
+        if (coordinates.Length > 0) dataAttributes.Add(NcAttribute.Text("coordinates", coordinates));
         return new FieldTemplate(dims, frameDims, copies, dataAttributes);
     }
 

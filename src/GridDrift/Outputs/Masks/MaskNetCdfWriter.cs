@@ -40,8 +40,9 @@ internal static class MaskNetCdfWriter
             [NcAttribute.Text("long_name", "area of the region on the sphere"), NcAttribute.Text("units", "m2"), NcAttribute.Text("coordinates", "region_name")]);
         var rowStart = w.AddVariable("row_start", NcType.Int, [starts], [NcAttribute.Text("long_name", "first entry of each region (CSR row pointer); last value = number of entries")]);
         var cellIndex = w.AddVariable("cell_index", NcType.Int, [entry], [NcAttribute.Text("long_name", "position of the cell in a frame (y * nx + x)")]);
-        var fraction = w.AddVariable("cell_fraction", NcType.Float, [entry],
-            [NcAttribute.Text("long_name", "fraction of the cell's area inside the region"), NcAttribute.Text("units", "1"), NcAttribute.Of("valid_range", 0f, 1f)]);
+        // float64: a thin sliver of a cell keeps its digits, and fraction × cell area gives the area inside as computed
+        var fraction = w.AddVariable("cell_fraction", NcType.Double, [entry],
+            [NcAttribute.Text("long_name", "fraction of the cell's area inside the region"), NcAttribute.Text("units", "1"), NcAttribute.Of("valid_range", 0.0, 1.0)]);
         var cellArea = w.AddVariable("cell_area", NcType.Double, [y, x],
             [NcAttribute.Text("standard_name", "cell_area"), NcAttribute.Text("units", "m2"), NcAttribute.Text("coordinates", "lat lon")]);
         ClassicWriter.Definition lat, lon;
@@ -63,7 +64,7 @@ internal static class MaskNetCdfWriter
         w.Write<double>(area, mask.RegionArea);
         w.Write<int>(rowStart, mask.RowStart);
         w.Write<int>(cellIndex, mask.EntryCount == 0 ? [0] : RowMajor(grid, mask.Cells));
-        w.Write<float>(fraction, mask.EntryCount == 0 ? [0f] : mask.Fraction);
+        w.Write<double>(fraction, mask.EntryCount == 0 ? [0.0] : mask.Fraction);
         w.Write<double>(cellArea, grid.CellArea);
         if (grid.IsRectilinear)
         {
