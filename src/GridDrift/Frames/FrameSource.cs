@@ -99,6 +99,7 @@ internal sealed class FrameSource : IDisposable
         var parts = new List<Part>(paths.Count);
         var warnings = new List<string>();
         IDatasetReader? firstGiven = null;
+        Dictionary<string, double[]>? firstCoordinates = null; // read once, compared with each of the first files
         try
         {
             foreach (var path in paths)
@@ -111,7 +112,7 @@ internal sealed class FrameSource : IDisposable
                     foreach (var w in part.Codec.Warnings) warnings.Add($"{path}: variable '{variable}': {w}");
                     // a short record's coordinates are compared now; a long one's as each file is first read
                     if (firstGiven is not null && parts.Count < EagerGridChecks && SameDimensions(parts[0], part, out _)
-                        && !SameCoordinates(firstGiven, parts[0], reader, part, out var why))
+                        && !SameCoordinates(firstCoordinates ??= Coordinates(firstGiven, parts[0]), reader, part, out var why))
                         throw new BadInputException(path, variable, $"grid differs from {parts[0].Path}: {why}");
                     parts.Add(part);
                 }
@@ -169,7 +170,7 @@ internal sealed class FrameSource : IDisposable
     }
 
     /// <summary>The scalar time coordinate of a one-image file (CF §5.7): named in the variable's coordinates attribute, else the file's only one.</summary>
-    static NcVariable? ScalarTime(IDatasetReader reader, NcVariable data)
+    internal static NcVariable? ScalarTime(IDatasetReader reader, NcVariable data)
     {
         var candidates = reader.Variables.Where(x => x.Rank == 0 && NcTypes.IsNumeric(x.Type) && TimeUnits.LooksLikeTime(x.Attributes.Text("units"))).ToList();
         var named = (data.Attributes.Text("coordinates") ?? "").Split(' ', StringSplitOptions.RemoveEmptyEntries);
@@ -347,9 +348,6 @@ internal sealed class FrameSource : IDisposable
     Dictionary<string, double[]>? _templateCoordinates;
     Dictionary<string, double[]> TemplateCoordinates() => _templateCoordinates ??= Coordinates(Template, _parts[0]);
 
-    static bool SameCoordinates(IDatasetReader readerA, Part a, IDatasetReader readerB, Part b, out string why) =>
-        SameCoordinates(Coordinates(readerA, a), readerB, b, out why);
-
     /// <summary>The 1-D coordinates of the frame dimensions hold the same values (to 1e-6 relative).</summary>
     static bool SameCoordinates(Dictionary<string, double[]> reference, IDatasetReader readerB, Part b, out string why)
     {
@@ -357,12 +355,11 @@ internal sealed class FrameSource : IDisposable
         {
             var cb = readerB.Variables.FirstOrDefault(v => v.Rank == 1 && v.Name == name);
             if (cb is null || !NcTypes.IsNumeric(cb.Type)) continue;
-            var ca = cb;
             var xb = readerB.ReadAllDoubles(cb);
             for (int j = 0; j < Math.Min(xa.Length, xb.Length); j++)
                 if (Math.Abs(xa[j] - xb[j]) > 1e-6 * Math.Max(1, Math.Abs(xa[j])))
                 {
-                    why = $"coordinate {ca.Name}[{j}] is {xa[j]} there, {xb[j]} here";
+                    why = $"coordinate {name}[{j}] is {xa[j]} there, {xb[j]} here";
                     return false;
                 }
         }

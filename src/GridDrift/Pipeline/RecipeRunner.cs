@@ -131,9 +131,15 @@ internal static class RecipeRunner
             if (first.FindVariable(variable) is null)
                 throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "variable"), "input.variable",
                     $"{inputs[0]} has no variable '{variable}' (it has: {string.Join(", ", first.Variables.Select(v => v.Name))})");
-        foreach (var key in new[] { "period", "level", "at" })
-            try { GridDrift.Frames.FrameSelection.Of(key == "period" ? recipe.OptionalText("input", key) : null, key == "level" ? recipe.OptionalText("input", key) : null, key == "at" ? recipe.List("input", key, []) : null); }
+        // each key checked on its own, so a fault names its own line
+        void Selection(string key, Action check)
+        {
+            try { check(); }
             catch (FormatException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", key), "input." + key, e.Message); }
+        }
+        Selection("period", () => GridDrift.Frames.FrameSelection.Of(recipe.OptionalText("input", "period")));
+        Selection("level", () => GridDrift.Frames.FrameSelection.Of(null, recipe.OptionalText("input", "level")));
+        Selection("at", () => GridDrift.Frames.FrameSelection.Of(null, null, recipe.List("input", "at", [])));
         try { GridDrift.Regions.RegionSpecs.ParseInput(recipe.List("input", "regions", ["global"])); }
         catch (BadInputException e) { throw BadInputException.InRecipe(recipe.Path, recipe.LineOf("input", "regions"), "input.regions", e.Fault); }
         foreach (var step in Steps.Where(s => recipe.Has(s.Name))) step.Check(recipe);

@@ -77,9 +77,7 @@ internal static class DescribeStep
     {
         using var first = DatasetFiles.Open(path);
         // a time dimension, or one image with a scalar time coordinate (CF §5.7) named in its coordinates
-        bool Timed(NcVariable v) => VariableAxes.Discover(first, v).IndexOf(AxisRole.Time) >= 0
-            || (v.Attributes.Text("coordinates") ?? "").Split(' ', StringSplitOptions.RemoveEmptyEntries)
-                .Any(n => first.FindVariable(n) is { Rank: 0 } c && TimeUnits.LooksLikeTime(c.Attributes.Text("units")));
+        bool Timed(NcVariable v) => VariableAxes.Discover(first, v).IndexOf(AxisRole.Time) >= 0 || FrameSource.ScalarTime(first, v) is not null;
         return first.Variables.Where(v => v.Rank >= 2 && NcTypes.IsNumeric(v.Type) && Timed(v)).Select(v => v.Name).ToList();
     }
 
