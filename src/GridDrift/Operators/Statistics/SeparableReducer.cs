@@ -18,6 +18,8 @@ internal sealed class SeparableReducer
     readonly double[][] _sums;
     readonly float[][] _min;
     readonly float[][] _max;
+    // ranges with columns of width 0 inside them (a box across the grid's seam): only these need the extremes masked
+    readonly bool[] _gaps;
 
     public SeparableReducer(SeparablePlan plan)
     {
@@ -25,6 +27,7 @@ internal sealed class SeparableReducer
         _sums = plan.Ranges.Select(_ => new double[plan.Rows * 3]).ToArray();
         _min = plan.Ranges.Select(_ => new float[plan.Rows]).ToArray();
         _max = plan.Ranges.Select(_ => new float[plan.Rows]).ToArray();
+        _gaps = plan.Ranges.Select(r => r.Width.Any(w => w <= 0)).ToArray();
     }
 
     /// <summary>
@@ -45,7 +48,7 @@ internal sealed class SeparableReducer
             for (int j = 0; j < _plan.Rows; j++)
             {
                 var row = frame.Slice(j * columns + range.First, range.Count);
-                RowSums(row, width, shift, out double s0, out double s1, out double s2, out float lo, out float hi);
+                RowSums(row, width, _gaps[k], shift, out double s0, out double s1, out double s2, out float lo, out float hi);
                 sums[3 * j] = s0;
                 sums[3 * j + 1] = s1;
                 sums[3 * j + 2] = s2;
@@ -86,7 +89,7 @@ internal sealed class SeparableReducer
 
     /// <summary>One contiguous pass over a row segment; NaN cells are left out. Float64 sums, SIMD where the hardware has it.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    static void RowSums(ReadOnlySpan<float> row, double[] width, float shift, out double s0, out double s1, out double s2, out float min, out float max)
+    static void RowSums(ReadOnlySpan<float> row, double[] width, bool gaps, float shift, out double s0, out double s1, out double s2, out float min, out float max)
     {
         int n = row.Length, i = 0;
         double a0 = 0, a1 = 0, a2 = 0;
@@ -106,8 +109,9 @@ internal sealed class SeparableReducer
                 var wl0 = Vector256.LoadUnsafe(ref w, (nuint)i);
                 var wh0 = Vector256.LoadUnsafe(ref w, (nuint)(i + 4));
                 // extremes only over cells inside the box: a box across the grid's seam spans columns of width 0 between its two ends
-                var inside = Vector256.Narrow(Vector256.GreaterThan(wl0, Vector256<double>.Zero).AsInt64(), Vector256.GreaterThan(wh0, Vector256<double>.Zero).AsInt64()).AsSingle();
-                var counted = valid & inside;
+                var counted = gaps
+                    ? valid & Vector256.Narrow(Vector256.GreaterThan(wl0, Vector256<double>.Zero).AsInt64(), Vector256.GreaterThan(wh0, Vector256<double>.Zero).AsInt64()).AsSingle()
+                    : valid;
                 vlo = Vector256.Min(vlo, Vector256.ConditionalSelect(counted, xv, Vector256.Create(float.PositiveInfinity)));
                 vhi = Vector256.Max(vhi, Vector256.ConditionalSelect(counted, xv, Vector256.Create(float.NegativeInfinity)));
                 var (xl, xh) = Vector256.Widen(xv);
