@@ -7,6 +7,7 @@ using GridDrift.Benchmarks;
 //   climatology [FRAMES]               monthly and hour-by-month climatologies of hourly 181 × 360 frames vs numpy group-by; memory at 1,000 and FRAMES
 //   longrecord [FRAMES] [--dir DIR]   one year of hourly 0.5° frames (9.1 GB) through stats, similarity, climatology: frames/s, peak memory, where the time goes
 //   similarity [PAIRS]                 SSIM and VIF of 721 × 1440 pairs vs scikit-image and numpy/scipy; memory over 100 and 10,000 frames
+//   calibration [SERIES] [--hourly N]   false alarms and power of every change and trend verdict on simulated persistent seasonal series
 //   images [FILES] [--dir DIR]         FILES one-image 500 × 500 int16 files vs the same frames stacked in one file, through stats
 return args.FirstOrDefault() switch
 {
@@ -21,6 +22,7 @@ return args.FirstOrDefault() switch
     "longrecord" => LongRecordBenchmark.Run(args[1..]),
     "longrecord-one" => LongRecordBenchmark.RunOne(args[1..]),
     "images" => ImagesBenchmark.Run(args[1..]),
+    "calibration" => CalibrationBenchmark.Run(args[1..]),
     _ => Usage(),
 };
 

@@ -49,7 +49,7 @@ internal static class Attribution
         return rows.Length > 0 ? s / rows.Length : double.NaN;
     }
 
-    static List<RegionImportance> Importance(Ridge model, double[,] x, double[] y, int[] rows, int repeats, int seed)
+    internal static List<RegionImportance> Importance(Ridge model, double[,] x, double[] y, int[] rows, int repeats, int seed)
     {
         int p = x.GetLength(1);
         var result = new List<RegionImportance>();

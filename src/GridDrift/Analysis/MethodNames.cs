@@ -20,7 +20,8 @@ internal static class MethodNames
         "pelt" => [ChangeMethod.PeltMean, ChangeMethod.PeltMeanVariance],
         "pelt-mean" => [ChangeMethod.PeltMean],
         "pelt-mean-variance" => [ChangeMethod.PeltMeanVariance],
-        var other => throw new FormatException($"unknown change-point method '{other}' (choose pettitt, pelt, pelt-mean or pelt-mean-variance)"),
+        "event-rate" => [ChangeMethod.EventRate],
+        var other => throw new FormatException($"unknown change-point method '{other}' (choose pettitt, pelt, pelt-mean, pelt-mean-variance or event-rate)"),
     };
 
     public static string Name(Detector d) => d switch
@@ -36,6 +37,7 @@ internal static class MethodNames
     {
         ChangeMethod.Pettitt => "pettitt",
         ChangeMethod.PeltMean => "pelt-mean",
-        _ => "pelt-mean-variance",
+        ChangeMethod.PeltMeanVariance => "pelt-mean-variance",
+        _ => "event-rate",
     };
 }

@@ -14,16 +14,17 @@ public enum SegmentCost
 /// 2012, JASA 107: 1590): F(t) = min_τ F(τ) + C(x_{τ+1..t}) + β over admissible τ, pruning
 /// every τ with F(τ) + C(x_{τ+1..t}) > F(t) (the costs here satisfy the paper's condition
 /// with K = 0). Costs are twice the negative Gaussian log-likelihood (constants dropped) from
-/// prefix sums. The default penalty is the BIC's, β = p · ln n per change, with p the parameters
+/// prefix sums. Without a given penalty it is the BIC's, β = p · ln n per change, with p the parameters
 /// each new segment adds: its location and its mean (p = 2 for <see cref="SegmentCost.Mean"/>), and
-/// its variance too (p = 3 for <see cref="SegmentCost.MeanAndVariance"/>);
-/// segments are at least <c>minSegment</c> long. The σ of the mean cost comes from the first
-/// differences and allows for AR(1) noise (<see cref="RobustNoise"/>).
+/// its variance too (p = 3 for <see cref="SegmentCost.MeanAndVariance"/>); the series analysis
+/// gives whitened series and the penalty calibrated to a stated level (<see cref="PeltPenalty"/>).
+/// Segments are at least <c>minSegment</c> long. Without a given noise variance the σ of the mean
+/// cost comes from the first differences and allows for AR(1) noise (<see cref="RobustNoise"/>).
 /// </summary>
 internal static class Pelt
 {
     /// <returns>0-based indices of the first value of each new segment, ascending.</returns>
-    public static int[] Detect(ReadOnlySpan<double> x, SegmentCost cost, double? penalty = null, int minSegment = 10)
+    public static int[] Detect(ReadOnlySpan<double> x, SegmentCost cost, double? penalty = null, int minSegment = 10, double? noiseVariance = null)
     {
         int n = x.Length;
         minSegment = Math.Max(cost == SegmentCost.MeanAndVariance ? 2 : 1, minSegment);
@@ -37,7 +38,7 @@ internal static class Pelt
             s1[i + 1] = s1[i] + x[i];
             s2[i + 1] = s2[i] + x[i] * x[i];
         }
-        double sigma2 = cost == SegmentCost.Mean ? Math.Pow(RobustNoise(x), 2) : 0;
+        double sigma2 = cost == SegmentCost.Mean ? noiseVariance ?? Math.Pow(RobustNoise(x), 2) : 0;
         if (cost == SegmentCost.Mean && !(sigma2 > 0)) return [];
         double totalVariance = (s2[n] - s1[n] * s1[n] / n) / n;
         double floor = Math.Max(1e-12 * Math.Max(totalVariance, 1e-300), 1e-300);

@@ -27,4 +27,8 @@ internal static class Pettitt
         double p = Math.Min(1, 2 * Math.Exp(-6 * best * best / ((double)n * n * n + (double)n * n)));
         return new Result(at, best, p);
     }
+
+    /// <summary>log10 of the approximate p-value, computed in logs so it stays finite where p underflows.</summary>
+    public static double Log10P(double k, int n) =>
+        Math.Min(0, (Math.Log(2) - 6 * k * k / ((double)n * n * n + (double)n * n)) / Math.Log(10));
 }

@@ -62,7 +62,7 @@ internal static class DemoRun
         sb.AppendLine("[similarity]\nmetric = [\"ssim\", \"corr\", \"rmsd\"]\nrange = \"180:320\"\nout = \"similarity.nc\"\ntable = \"similarity.parquet\"\n");
         sb.AppendLine("[climatology]\nby = \"month\"\nout = \"climatology.nc\"\n");
         sb.AppendLine("[anomalies]\nkind = \"absolute\"\nout = \"anomalies.nc\"\ntable = \"anomalies.parquet\"\n");
-        sb.AppendLine($"[events]\nseries = \"similarity.nc\"\nquantity = \"ssim\"\nchangepoints = [\"pettitt\", \"pelt-mean\"]\nmin-segment = {minSegment.ToString(CultureInfo.InvariantCulture)}\nout = \"events.parquet\"\nplot = \"figures\"\n");
+        sb.AppendLine($"[events]\nseries = \"similarity.nc\"\nquantity = \"ssim\"\nchangepoints = [\"pettitt\", \"pelt-mean\", \"event-rate\"]\nmin-segment = {minSegment.ToString(CultureInfo.InvariantCulture)}\nout = \"events.parquet\"\nplot = \"figures\"\n");
         sb.AppendLine("[attribute]\nseries = \"similarity.nc\"\ntarget = \"global\"\nquantity = \"ssim\"\nout = \"attribution.parquet\"\nplot = \"figures\"\n");
         sb.AppendLine("[report]\ntitle = \"GridDrift demo: an invented regime shift\"\nout = \"report\"\ntruth = \"truth.json\"");
         return sb.ToString();

@@ -10,7 +10,9 @@ namespace GridDrift.Demo;
 /// state, hemispheric annual cycles, a diurnal cycle, eastward-travelling waves and noise. On
 /// <see cref="ShiftDate"/> a regime shift is injected in two regions: there the waves travel
 /// <see cref="SpeedFactor"/> times faster and the noise is <see cref="NoiseFactor"/> times larger,
-/// so consecutive frames become less alike. Nothing here is real data.
+/// so consecutive frames become less alike. The shift fades out towards the sectors' edges
+/// (<see cref="Strength"/>), so that windowed measures of the neighbouring sectors (SSIM's window
+/// reaches five cells) do not see it: untouched regions stay untouched. Nothing here is real data.
 /// </summary>
 internal sealed record DemoScenario(string Size, double Resolution, double StepHours, int FirstYear, int Years, CfTime ShiftDate)
 {
@@ -114,7 +116,7 @@ internal sealed record DemoScenario(string Size, double Resolution, double StepH
         bool shifted = time >= ShiftDate;
         double shiftDays = ShiftDate.SecondsSince(Start) / 86400;
         double season = Math.Sin(2 * Math.PI * (days - 80) / 365.2425);
-        var rng = new Random(17 + index);
+        var rng = new Random(FrameSeed(index));
         int columns = Columns;
         Span<double> cosA = stackalloc double[3 * columns], sinA = stackalloc double[3 * columns], diurnal = stackalloc double[columns];
         for (int i = 0; i < columns; i++)
@@ -146,11 +148,14 @@ internal sealed record DemoScenario(string Size, double Resolution, double StepH
             for (int i = 0; i < columns; i++)
             {
                 double lambda = Resolution * (i + 0.5);
-                bool changed = shifted && InChanged(phi, lambda);
-                int k = changed ? 3 : 0;
-                double waves = 0;
+                double w = shifted ? Strength(phi, lambda) : 0;
+                double waves = 0, fastWaves = 0;
                 for (int m = 0; m < 3; m++)
-                    waves += (5.0 / (m + 1)) * c * (cosA[m * columns + i] * cosB[k + m] - sinA[m * columns + i] * sinB[k + m]);
+                {
+                    waves += (5.0 / (m + 1)) * c * (cosA[m * columns + i] * cosB[m] - sinA[m * columns + i] * sinB[m]);
+                    if (w > 0) fastWaves += (5.0 / (m + 1)) * c * (cosA[m * columns + i] * cosB[3 + m] - sinA[m * columns + i] * sinB[3 + m]);
+                }
+                waves = (1 - w) * waves + w * fastWaves;
                 double z;
                 if (double.IsNaN(spare))
                 {
@@ -163,26 +168,55 @@ internal sealed record DemoScenario(string Size, double Resolution, double StepH
                     z = spare;
                     spare = double.NaN;
                 }
-                double noise = (changed ? NoiseFactor : 1) * 0.8 * z;
+                double noise = (1 + (NoiseFactor - 1) * w) * 0.8 * z;
                 field[j * columns + i] = (float)(mean + waves + c * diurnal[i] + noise);
             }
         }
     }
 
-    static bool InChanged(double phi, double lambda)
+    /// <summary>
+    /// The noise seed of a frame: SplitMix64 (Steele, Lea &amp; Flood 2014) of its index. Seeds that
+    /// follow each other (17 + index) give System.Random streams whose first draws are correlated,
+    /// and that correlation drifts slowly with the seed: the similarity of consecutive frames then
+    /// drifted in regions nothing was done to.
+    /// </summary>
+    static int FrameSeed(int index)
+    {
+        ulong z = unchecked((ulong)index + 0x9E3779B97F4A7C15UL * 17);
+        z = unchecked((z ^ (z >> 30)) * 0xBF58476D1CE4E5B9UL);
+        z = unchecked((z ^ (z >> 27)) * 0x94D049BB133111EBUL);
+        return (int)((z ^ (z >> 31)) >> 33);
+    }
+
+    /// <summary>
+    /// How much of the shift a cell gets: 0 outside the changed sectors and within
+    /// <see cref="GuardCells"/> cells of their edges, rising linearly to 1 over as many cells again.
+    /// </summary>
+    public double Strength(double phi, double lambda)
     {
         foreach (var s in Sectors)
-            if (ChangedRegions.Contains(s.Name) && phi >= s.South && phi < s.North && lambda >= s.West && lambda < s.East) return true;
-        return false;
+            if (ChangedRegions.Contains(s.Name) && phi >= s.South && phi < s.North && lambda >= s.West && lambda < s.East)
+            {
+                double cells = Math.Min(Math.Min(phi - s.South, s.North - phi), Math.Min(lambda - s.West, s.East - lambda)) / Resolution;
+                return Math.Clamp((cells - GuardCells) / GuardCells, 0, 1);
+            }
+        return 0;
     }
+
+    /// <summary>Cells next to a sector's edge that the shift leaves alone (SSIM's Gaussian window weighs cells four or more away by under 3 %).</summary>
+    public const double GuardCells = 3;
 
     /// <summary>The injected truth, for the report to set beside what was recovered.</summary>
     public string TruthJson() => System.Text.Json.JsonSerializer.Serialize(new
     {
         shift_time = ShiftDate.ToIsoString(),
         changed_regions = ChangedRegions,
+        containing_regions = new[] { "global" },
+        untouched_regions = Sectors.Select(s => s.Name).Where(n => !ChangedRegions.Contains(n)).ToArray(),
         wave_speed_factor = SpeedFactor,
         noise_factor = NoiseFactor,
+        fades_out_within_cells_of_sector_edges = 2 * GuardCells,
+        noise = "independent per frame (seeds by SplitMix64 of the frame index)",
         note = "invented scenario of griddrift demo; not real data",
     }, new System.Text.Json.JsonSerializerOptions { WriteIndented = true });
 }

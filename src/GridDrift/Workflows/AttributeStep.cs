@@ -26,13 +26,16 @@ internal sealed record AttributeSummary(IReadOnlyList<(string Region, double Imp
 /// <summary>
 /// `griddrift attribute`: which regions drive a target series. Fits <see cref="Ridge"/> of the
 /// target on the other regions' series, then writes permutation importance (record and per
-/// year), mean |Shapley| per year, per-step Shapley values, how the regions' ranks changed between
-/// two periods (given, or before/after the target's Pettitt change point), and partial dependence
+/// year), mean |Shapley| per year, per-step Shapley values, the change of each region's importance
+/// between two periods (given, or before/after the target's change point) with a bootstrap interval
+/// (<see cref="ImportanceChange"/>), how the regions' Shapley ranks changed, and partial dependence
 /// and ICE profiles of chosen regions.
 /// </summary>
 internal static class AttributeStep
 {
     const int Leaders = 5;
+
+    static JsonNode? Number(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
 
     public static AttributeSummary Run(AttributeOptions o)
     {
@@ -87,8 +90,20 @@ internal static class AttributeStep
         var (first, second, how) = ChoosePeriods(o, times, y);
         var ranks = new TableBuilder().Text("region").Integer("rank_first").Integer("rank_second").Text("change");
         var changes = new JsonArray();
+        var importanceChange = new TableBuilder().Text("region").Number("importance_before").Number("importance_after").Number("change").Number("change_lo").Number("change_hi").Integer("rank");
+        var changeRanking = new JsonArray();
         if (first is { } a && second is { } b)
         {
+            int place = 0;
+            foreach (var c in ImportanceChange.Between(result.Model, x, y, times, a, b).OrderByDescending(c => double.IsNaN(c.Change) ? double.NegativeInfinity : c.Change))
+            {
+                importanceChange.Add(Name(c.Region), c.Before, c.After, c.Change, c.Low, c.High, ++place);
+                changeRanking.Add(new JsonObject
+                {
+                    ["region"] = Name(c.Region), ["importance_before"] = Number(c.Before), ["importance_after"] = Number(c.After),
+                    ["change"] = Number(c.Change), ["change_lo"] = Number(c.Low), ["change_hi"] = Number(c.High), ["rank"] = place,
+                });
+            }
             var r1 = Attribution.RankByShapley(result.Shapley, times, a, predictors.Length);
             var r2 = Attribution.RankByShapley(result.Shapley, times, b, predictors.Length);
             for (int j = 0; j < predictors.Length; j++)
@@ -132,18 +147,20 @@ internal static class AttributeStep
             ["r2"] = result.R2.ToString("R", CultureInfo.InvariantCulture),
             ["importance"] = "permutation importance (Breiman 2001): rise in mean squared error, 10 shuffles; Shapley values of the linear model phi_j = beta_j (x_j - E x_j)",
             ["periods"] = how,
+            ["importance_change"] = "permutation importance within each year of each period; change = mean over the after-years - mean over the before-years; 95 % interval from resampling the years of each period (999 resamples)",
         });
         var tables = new List<string> { o.Output, ProductNames.Beside(o.Output, ProductNames.Shapley) };
         importance.Write(o.Output, metadata);
         shapley.Write(tables[1], metadata);
         if (ranks.Count > 0) { tables.Add(ProductNames.Beside(o.Output, ProductNames.Ranks)); ranks.Write(tables[^1], metadata); }
+        if (importanceChange.Count > 0) { tables.Add(ProductNames.Beside(o.Output, ProductNames.ImportanceChange)); importanceChange.Write(tables[^1], metadata); }
         if (profiles.Count > 0) { tables.Add(ProductNames.Beside(o.Output, ProductNames.Profiles)); profiles.Write(tables[^1], metadata); }
         var json = new JsonObject
         {
             ["input"] = o.Input, ["target"] = o.Target, ["quantity"] = quantity,
             ["r2"] = double.IsFinite(result.R2) ? result.R2 : null, ["lambda"] = result.Model.Lambda,
             ["ranking"] = new JsonArray(ranking.Select((r, k) => (JsonNode)new JsonObject { ["region"] = r.Item1, ["importance"] = r.Importance, ["rank"] = k + 1 }).ToArray()),
-            ["periods"] = how, ["rank_changes"] = changes, ["caution"] = metadata["caution"],
+            ["periods"] = how, ["rank_changes"] = changes, ["importance_change"] = changeRanking, ["caution"] = metadata["caution"],
         };
         return new AttributeSummary(ranking, result.R2, json, tables);
     }
@@ -162,10 +179,14 @@ internal static class AttributeStep
             }
             catch (FormatException e) { throw new BadInputException(null, null, "--periods " + e.Message); }
         }
-        var p = Pettitt.Test(y);
-        if (p.LastBefore < 0 || p.P >= 0.05) return (null, null, "none: no --periods and no significant Pettitt change point in the target");
-        var change = times[p.LastBefore + 1];
+        // the target's change is found as `events` finds one: on the deseasonalised series, whitened, Pettitt's test
+        var days = times.Select(t => t.SecondsSince(times[0]) / 86400.0).ToArray();
+        double year = times[0].Calendar.MeanYearDays();
+        var target = days[^1] - days[0] >= 2 * year ? SeasonalModel.Residuals(days, y, 3, year, trend: false) : y;
+        var p = Prewhitened.Pettitt(target);
+        if (!p.Found || !(p.P < 0.05)) return (null, null, "none: no --periods and no change in the target (whitened Pettitt test, p < 0.05)");
+        var change = times[p.FirstAfter];
         return (new TimePeriod(times[0], change), new TimePeriod(change, times[^1].AddMicros(1)),
-            $"before and after the target's Pettitt change point {change.ToIsoString()} (p = {p.P.ToString("0.###", CultureInfo.InvariantCulture)})");
+            $"before and after the target's change point {change.ToIsoString()} (whitened Pettitt test, p {GridDrift.Analysis.PValues.Format(p.P)})");
     }
 }

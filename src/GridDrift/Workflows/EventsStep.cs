@@ -32,7 +32,7 @@ internal static class EventsStep
 {
     public static readonly SeriesAnalysisOptions Defaults = new(
         [Detector.RobustZ, Detector.Hampel, Detector.Iqr, Detector.SeasonalResidual, Detector.Gesd],
-        [ChangeMethod.Pettitt, ChangeMethod.PeltMean, ChangeMethod.PeltMeanVariance]);
+        [ChangeMethod.Pettitt, ChangeMethod.PeltMean, ChangeMethod.PeltMeanVariance, ChangeMethod.EventRate]);
 
     public static EventsSummary Run(EventsOptions o)
     {
@@ -60,20 +60,26 @@ internal static class EventsStep
             foreach (var r in found.Regions)
             {
                 string safe = string.Concat(r.Region.Select(ch => char.IsLetterOrDigit(ch) || ch is '-' or '_' ? ch : '_'));
-                GridDrift.Outputs.Plots.AnalysisPlots.Series(Path.Combine(plots, $"series_{safe}.png"), r.Region, quantity, units, times, r.Values, r.Findings);
-                var change = r.Findings.ChangePoints.FirstOrDefault(c => c.Method == ChangeMethod.PeltMean) ?? r.Findings.ChangePoints.FirstOrDefault();
-                GridDrift.Outputs.Plots.AnalysisPlots.YearlyCounts(Path.Combine(plots, $"counts_{safe}.png"), r.Region, r.YearlyEvents,
-                    change is null ? null : times[change.FirstAfter].Year);
+                GridDrift.Outputs.Plots.AnalysisPlots.Series(Path.Combine(plots, $"series_{safe}.png"), r.Region, quantity, units, times, r.Values, r.Findings, analysis.Alpha);
+                GridDrift.Outputs.Plots.AnalysisPlots.EventCounts(Path.Combine(plots, $"counts_{safe}.png"), r.Region, times, r.Findings.Events, r.Findings, analysis.Alpha);
             }
         }
         var metadata = Provenance.For(o.Command, [o.Input]).AsKeyValues(new Dictionary<string, string>
         {
             ["title"] = $"Events, trends and change points of {quantity}",
             ["detectors"] = string.Join(",", analysis.Detectors.Select(MethodNames.Name)),
-            ["detectors_on"] = analysis.OnResiduals ? "residuals of a constant and 3 annual harmonics" : "raw values",
+            ["detectors_on"] = analysis.OnResiduals switch
+            {
+                true => "residuals of the seasonal model",
+                false => "raw values",
+                null => "residuals of the seasonal model when the record spans two years or more, else raw values",
+            },
+            ["seasonal_model"] = "least squares over the whole record: a constant, 3 annual harmonics, and 2 diurnal harmonics for sub-daily steps",
+            ["tests"] = "Pettitt and Mann-Kendall on the series whitened by its AR sieve (Yule-Walker, order by AIC); PELT on the whitened series with the penalty calibrated to alpha; q by Benjamini-Hochberg over every p-value of the run",
+            ["alpha"] = analysis.Alpha.ToString("R", CultureInfo.InvariantCulture),
             ["event_rule"] = $"at least {analysis.Consensus} detectors flag the value",
             ["window_days"] = analysis.WindowDays.ToString(CultureInfo.InvariantCulture),
-            ["pelt_penalty"] = "BIC: p ln n per change, p = 2 (mean change: location and mean) or 3 (mean and variance)",
+            ["pelt_penalty"] = "per change, the (1 - alpha) quantile of the largest one-split cost drop of white noise of the same length (999 simulations)",
             ["pelt_min_segment"] = analysis.MinSegment.ToString(CultureInfo.InvariantCulture),
             ["slope_units"] = (units == "" ? "quantity" : units) + " per day",
             ["calendar"] = times[0].Calendar.CfName(),

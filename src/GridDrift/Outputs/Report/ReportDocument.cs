@@ -4,8 +4,9 @@ using System.Text;
 namespace GridDrift.Outputs.Report;
 
 /// <summary>
-/// A report as a list of blocks — headings, paragraphs, tables, figures — rendered to Markdown
-/// and to a self-contained HTML page (figures referenced by relative path).
+/// A report as a list of blocks — headings, paragraphs, bullet lists, tables, figures — rendered
+/// to Markdown (figures referenced by relative path) and to one self-contained HTML page (figures
+/// embedded as data: URIs, so the page can be sent on alone).
 /// </summary>
 internal sealed class ReportDocument
 {
@@ -15,6 +16,7 @@ internal sealed class ReportDocument
     sealed record Table(string[] Header, List<string[]> Rows) : Block;
     sealed record Figure(string Path, string Caption) : Block;
     sealed record Code(string Text) : Block;
+    sealed record Bullets(List<string> Items) : Block;
 
     readonly List<Block> _blocks = [];
 
@@ -24,6 +26,10 @@ internal sealed class ReportDocument
     public void Section(string text, int level = 2) => _blocks.Add(new Heading(level, text));
     public void Text(string text) => _blocks.Add(new Paragraph(text));
     public void Verbatim(string text) => _blocks.Add(new Code(text));
+    public void List(IEnumerable<string> items) => _blocks.Add(new Bullets(items.ToList()));
+
+    /// <summary>Appends the blocks of <paramref name="other"/> (its title is not repeated).</summary>
+    public void Append(ReportDocument other) => _blocks.AddRange(other._blocks);
     public void Image(string relativePath, string caption) => _blocks.Add(new Figure(relativePath, caption));
     public void Rows(string[] header, IEnumerable<string[]> rows) => _blocks.Add(new Table(header, rows.ToList()));
 
@@ -36,6 +42,7 @@ internal sealed class ReportDocument
                 case Heading h: sb.Append(new string('#', h.Level)).Append(' ').Append(h.Text).Append("\n\n"); break;
                 case Paragraph p: sb.Append(p.Text).Append("\n\n"); break;
                 case Code c: sb.Append("```\n").Append(c.Text.TrimEnd()).Append("\n```\n\n"); break;
+                case Bullets l: foreach (var item in l.Items) sb.Append("- ").Append(item).Append('\n'); sb.Append('\n'); break;
                 case Figure f: sb.Append($"![{f.Caption}]({f.Path})\n\n*{f.Caption}*\n\n"); break;
                 case Table t:
                     sb.Append("| ").Append(string.Join(" | ", t.Header)).Append(" |\n|").Append(string.Concat(t.Header.Select(_ => "---|"))).Append('\n');
@@ -46,7 +53,8 @@ internal sealed class ReportDocument
         return sb.ToString();
     }
 
-    public string ToHtml()
+    /// <param name="folder">where the figures' relative paths start; their bytes are embedded</param>
+    public string ToHtml(string folder)
     {
         static string E(string s) => WebUtility.HtmlEncode(s);
         var sb = new StringBuilder("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>").Append(E(Title)).Append("</title>\n<style>")
@@ -59,7 +67,12 @@ internal sealed class ReportDocument
                 case Heading h: sb.Append($"<h{h.Level}>{E(h.Text)}</h{h.Level}>\n"); break;
                 case Paragraph p: sb.Append(p.Text.StartsWith("**GridDrift is an analysis tool", StringComparison.Ordinal) ? "<p class=\"caution\">" : "<p>").Append(Inline(E(p.Text))).Append("</p>\n"); break;
                 case Code c: sb.Append("<pre>").Append(E(c.Text.TrimEnd())).Append("</pre>\n"); break;
-                case Figure f: sb.Append($"<figure><img src=\"{E(f.Path)}\" alt=\"{E(f.Caption)}\"><figcaption>{E(f.Caption)}</figcaption></figure>\n"); break;
+                case Figure f:
+                    string file = Path.Combine(folder, f.Path);
+                    string source = File.Exists(file) ? "data:image/png;base64," + Convert.ToBase64String(File.ReadAllBytes(file)) : E(f.Path);
+                    sb.Append($"<figure><img src=\"{source}\" alt=\"{E(f.Caption)}\"><figcaption>{E(f.Caption)}</figcaption></figure>\n");
+                    break;
+                case Bullets l: sb.Append("<ul>").Append(string.Concat(l.Items.Select(i => $"<li>{Inline(E(i))}</li>"))).Append("</ul>\n"); break;
                 case Table t:
                     sb.Append("<table><tr>").Append(string.Concat(t.Header.Select(h => $"<th>{E(h)}</th>"))).Append("</tr>\n");
                     foreach (var r in t.Rows) sb.Append("<tr>").Append(string.Concat(r.Select(c => $"<td>{Inline(E(c))}</td>"))).Append("</tr>\n");
@@ -76,7 +89,8 @@ internal sealed class ReportDocument
     /// <summary>Writes NAME.md and NAME.html, each under a temporary name first.</summary>
     public void Save(string stem)
     {
-        foreach (var (ext, text) in new[] { (".md", ToMarkdown()), (".html", ToHtml()) })
+        string folder = Path.GetDirectoryName(Path.GetFullPath(stem))!;
+        foreach (var (ext, text) in new[] { (".md", ToMarkdown()), (".html", ToHtml(folder)) })
         {
             string final = stem + ext, temp = Path.Combine(Path.GetDirectoryName(Path.GetFullPath(final))!, "." + Path.GetFileName(final) + ".part");
             File.WriteAllText(temp, text);

@@ -16,6 +16,7 @@ internal static class ProductNames
     public const string ChangePoints = "_changepoints.parquet";
     public const string Shapley = "_shapley.parquet";
     public const string Ranks = "_ranks.parquet";
+    public const string ImportanceChange = "_change.parquet";
     public const string Profiles = "_profiles.parquet";
     public const string Fields = "_fields.nc";
     public const string Series = "_series.nc";

@@ -76,9 +76,10 @@ internal static class EventsKeys
 {
     public static readonly StepKey<string> Detect = new("detect", "detectors: robust-z,hampel,iqr,seasonal-residual,gesd (default: all)",
         "robust-z,hampel,iqr,seasonal-residual,gesd", ListOf(MethodNames.ParseDetector));
-    public static readonly StepKey<string> On = new("on", "raw: detect on the values; residuals: on the residuals of a seasonal model", "raw", OneOf("raw", "residuals"));
+    public static readonly StepKey<string> On = new("on", "residuals: detect and test on the residuals of a seasonal model; raw: on the values; auto: residuals when the record spans two years or more",
+        "auto", OneOf("auto", "raw", "residuals"));
     public static readonly StepKey<string> Window = new("window", "moving window of the event counts, in days (e.g. 365d)", "365d", Accepts(w => EventsStep.ParseWindowDays(w)));
-    public static readonly StepKey<string> Changepoints = new("changepoints", "pettitt, pelt (both PELT costs), pelt-mean, pelt-mean-variance", "pettitt,pelt",
+    public static readonly StepKey<string> Changepoints = new("changepoints", "pettitt, pelt (both PELT costs), pelt-mean, pelt-mean-variance, event-rate (change of the monthly event rate)", "pettitt,pelt,event-rate",
         ListOf(MethodNames.ParseChangeMethods));
     public static readonly StepKey<int> Consensus = new("consensus", "detectors that must agree for an event", 2, Between(1, 5));
     public static readonly StepKey<int> MinSegment = new("min-segment", "PELT's shortest segment, in time steps", 10, AtLeast(2));
@@ -104,7 +105,7 @@ internal static class EventsAnalysis
     public static Analysis.SeriesAnalysisOptions From(string detect, string on, string window, string changepoints, int consensus, int minSegment) => new(
         StatsKeys.Items(detect).Select(MethodNames.ParseDetector).Distinct().ToArray(),
         StatsKeys.Items(changepoints).SelectMany(MethodNames.ParseChangeMethods).Distinct().ToArray(),
-        on == "residuals",
+        on switch { "residuals" => true, "raw" => false, _ => null },
         EventsStep.ParseWindowDays(window),
         consensus,
         minSegment);
