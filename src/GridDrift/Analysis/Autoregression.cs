@@ -28,7 +28,12 @@ internal sealed class Autoregression
     public static int MaxOrder(int n) => Math.Clamp((int)(10 * Math.Log10(Math.Max(n, 1))), 0, Math.Min(40, n / 10));
 
     /// <summary>Fits the AR to <paramref name="noise"/> (the series with what is not noise removed: seasonal cycle, trend or shifts).</summary>
-    public static Autoregression Fit(ReadOnlySpan<double> noise, int? maxOrder = null)
+    public static Autoregression Fit(ReadOnlySpan<double> noise, int? maxOrder = null) => Fit(noise, maxOrder, exactOrder: false);
+
+    /// <summary>The Yule–Walker AR of exactly <paramref name="order"/> (no order choice).</summary>
+    public static Autoregression OfOrder(ReadOnlySpan<double> noise, int order) => Fit(noise, order, exactOrder: true);
+
+    static Autoregression Fit(ReadOnlySpan<double> noise, int? maxOrder, bool exactOrder)
     {
         int n = noise.Length;
         double mean = 0;
@@ -60,7 +65,7 @@ internal sealed class Autoregression
             variance *= 1 - reflection * reflection;
             Array.Copy(a, previous, p + 1);
             double aic = n * Math.Log(variance) + 2 * p;
-            if (aic < bestAic) { bestAic = aic; best = a[1..(p + 1)]; bestVariance = variance; }
+            if (aic < bestAic || (exactOrder && p == pmax)) { bestAic = aic; best = a[1..(p + 1)]; bestVariance = variance; }
         }
         return new Autoregression(best, bestVariance, mean);
     }
