@@ -26,7 +26,7 @@ public static class EventsCommand
         var json = CommandJson.Option();
         var plot = KeyOptions.For(CommonKeys.Plot);
         var quiet = CommonOptions.Quiet();
-        var command = new Command("events", "Outlier events, their counts in a moving window and per year, Mann–Kendall/Sen trends and Pettitt/PELT change points of series.\n\n" +
+        var command = new Command("events", "Outlier events, their counts in a moving window and per year, Mann–Kendall/Sen trends, Pettitt/PELT change points and event-rate changes of series, calibrated for persistence and judged by q-values.\n\n" +
             "Example:\n  griddrift events s.nc --quantity mean --out events.parquet --json")
         {
             input, quantity, region, detect, on, window, changepoints, consensus, minSegment, output, json, plot, quiet,
@@ -40,9 +40,9 @@ public static class EventsCommand
                 parse.GetValue(region), analysis, CommonOptions.CommandLine("events", commandLine), parse.GetValue(plot)));
             // the summary's keys join the analysis's own JSON (change points, trends), which stays as it was
             CommandJson.Print(parse, json, CommandJson.Summary("events", clock, [summary.FlagsTable, summary.CountsTable, summary.TrendsTable, summary.ChangePointsTable],
-                new JsonObject { ["series"] = summary.Series, ["events"] = summary.Events, ["change_points"] = summary.ChangePoints }, into: summary.Json));
+                new JsonObject { ["series"] = summary.Series, ["events"] = summary.Events, ["change_points"] = summary.ChangePoints, ["changes_at_q_0_05"] = summary.SignificantChanges }, into: summary.Json));
             if (!parse.GetValue(quiet))
-                parse.InvocationConfiguration.Error.WriteLine($"griddrift events: {summary.Series} series, {summary.Events} events, {summary.ChangePoints} change points; " +
+                parse.InvocationConfiguration.Error.WriteLine($"griddrift events: {summary.Series} series, {summary.Events} events, {summary.ChangePoints} candidate changes of which {summary.SignificantChanges} at q < 0.05; " +
                     $"tables {summary.FlagsTable}, {summary.CountsTable}, {summary.TrendsTable}, {summary.ChangePointsTable}");
             return ExitCodes.Success;
         });

@@ -21,7 +21,7 @@ internal sealed record EventsOptions(
     string Command = "griddrift events",
     string? PlotDirectory = null);
 
-internal sealed record EventsSummary(int Series, int Events, int ChangePoints, string FlagsTable, string CountsTable, string TrendsTable, string ChangePointsTable, JsonObject Json);
+internal sealed record EventsSummary(int Series, int Events, int ChangePoints, int SignificantChanges, string FlagsTable, string CountsTable, string TrendsTable, string ChangePointsTable, JsonObject Json);
 
 /// <summary>
 /// `griddrift events`: reads a series product, analyses each chosen region's series of one
@@ -87,7 +87,7 @@ internal static class EventsStep
         var paths = new EventTables.Paths(o.Output, ProductNames.Beside(o.Output, ProductNames.Counts), ProductNames.Beside(o.Output, ProductNames.Trends),
             ProductNames.Beside(o.Output, ProductNames.ChangePoints));
         EventTables.Write(found, paths, metadata);
-        return new EventsSummary(regions.Count, found.EventCount, found.ChangePointCount, paths.Flags, paths.Counts, paths.Trends, paths.ChangePoints,
+        return new EventsSummary(regions.Count, found.EventCount, found.ChangePointCount, found.SignificantChangeCount, paths.Flags, paths.Counts, paths.Trends, paths.ChangePoints,
             EventTables.Summary(found, o.Input, metadata));
     }
 

@@ -4,7 +4,7 @@ using ScottPlot;
 
 namespace GridDrift.Outputs.Plots;
 
-/// <summary>A map of regions over the grid's domain: outlines and names on longitude/latitude axes.</summary>
+/// <summary>A map of regions over the grid's domain: coastlines, outlines and names on longitude/latitude axes; the legend names only what it draws.</summary>
 internal static class RegionMapPlot
 {
     public static void Save(string path, Grid grid, IReadOnlyList<RegionShape> regions, RegionMask mask, string title)
@@ -25,7 +25,16 @@ internal static class RegionMapPlot
         var cells = plot.Add.ScatterPoints(xs.ToArray(), ys.ToArray());
         cells.MarkerSize = 1;
         cells.Color = Colors.LightGray;
-        cells.LegendText = "grid cells";
+        bool first = true;
+        foreach (var (x, y) in Coastlines.Wrapped(left))
+        {
+            var coast = plot.Add.ScatterLine(x, y);
+            coast.Color = Colors.DimGray;
+            coast.LineWidth = 0.8f;
+            coast.MarkerSize = 0;
+            if (first) coast.LegendText = Coastlines.Attribution;
+            first = false;
+        }
 
         bool label = regions.Count <= 60;
         float fontSize = regions.Count <= 12 ? 12 : regions.Count <= 30 ? 9 : 7;
@@ -43,6 +52,8 @@ internal static class RegionMapPlot
             }
         }
         plot.Title(title);
+        // the legend sits below the map, not on it
+        plot.ShowLegend(Edge.Bottom);
         plot.XLabel("longitude (degrees east)");
         plot.YLabel("latitude (degrees north)");
         plot.Axes.SetLimits(left, right, -90, 90);
