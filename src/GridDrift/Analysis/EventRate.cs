@@ -4,7 +4,7 @@ namespace GridDrift.Analysis;
 /// Did the rate of events change? Events are counted per month (a twelfth of the year, from the
 /// first time), as a rate per valid value so gaps do not count as calm; with two years or more
 /// each calendar month's mean rate is removed (events follow the seasons); then Pettitt's test on
-/// the whitened monthly rates (<see cref="Prewhitened"/>, noise fitted with the split means: <see cref="NoiseFit.SplitMeans"/>) gives the date, its p-value and a
+/// the whitened monthly rates (<see cref="Prewhitened"/>, noise fitted as for the series: <see cref="NoiseFit.Guarded"/>) gives the date, its p-value and a
 /// bootstrap interval. The sides' mean counts are events per month, their Sen slopes events per
 /// month per day: when the slopes differ in sign the event-count trend reverses at the change.
 /// </summary>
@@ -40,7 +40,7 @@ internal static class EventRate
                 foreach (int k in same) adjusted[k] -= mean;
             }
         if (adjusted.Distinct().Count() < 3) return null;
-        var shift = Prewhitened.Pettitt(adjusted, NoiseFit.SplitMeans);
+        var shift = Prewhitened.Pettitt(adjusted, NoiseFit.Guarded);
         if (!shift.Found || shift.FirstAfter >= kept.Length) return null;
         var (low, high) = o.DateReplicates > 0 && shift.P < o.Alpha ? ChangeDating.Interval(adjusted, shift.FirstAfter, shift.Noise, seed, o.DateReplicates) : (-1, -1);
         var start = kept.Select(b => origin + b * month).ToArray();

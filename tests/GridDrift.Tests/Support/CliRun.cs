@@ -15,7 +15,7 @@ public static class CliRun
         var stdout = new StringWriter();
         var stderr = new StringWriter();
         var task = Task.Run(() => CliApp.Run(args, stdout, stderr));
-        if (!task.Wait(TimeSpan.FromSeconds(60))) throw new TimeoutException($"griddrift {string.Join(' ', args)} did not finish in 60 s");
+        if (!task.Wait(TimeSpan.FromSeconds(180))) throw new TimeoutException($"griddrift {string.Join(' ', args)} did not finish in 180 s");
         return new Outcome(task.Result, stdout.ToString(), stderr.ToString());
     }
 }
