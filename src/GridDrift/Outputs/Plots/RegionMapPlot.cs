@@ -4,7 +4,7 @@ using ScottPlot;
 
 namespace GridDrift.Outputs.Plots;
 
-/// <summary>A map of regions over the grid's domain: coastlines, outlines and names on longitude/latitude axes; the legend names only what it draws.</summary>
+/// <summary>A map of regions over the grid's domain: coastlines, outlines and names on longitude/latitude axes; the coastlines' source is credited under the axis.</summary>
 internal static class RegionMapPlot
 {
     public static void Save(string path, Grid grid, IReadOnlyList<RegionShape> regions, RegionMask mask, string title)
@@ -25,15 +25,12 @@ internal static class RegionMapPlot
         var cells = plot.Add.ScatterPoints(xs.ToArray(), ys.ToArray());
         cells.MarkerSize = 1;
         cells.Color = Colors.LightGray;
-        bool first = true;
         foreach (var (x, y) in Coastlines.Wrapped(left))
         {
             var coast = plot.Add.ScatterLine(x, y);
             coast.Color = Colors.DimGray;
             coast.LineWidth = 0.8f;
             coast.MarkerSize = 0;
-            if (first) coast.LegendText = Coastlines.Attribution;
-            first = false;
         }
 
         bool label = regions.Count <= 60;
@@ -52,9 +49,8 @@ internal static class RegionMapPlot
             }
         }
         plot.Title(title);
-        // the legend sits below the map, not on it
-        plot.ShowLegend(Edge.Bottom);
-        plot.XLabel("longitude (degrees east)");
+        // the regions are named on the map; the only other thing drawn, the coastline, is credited under the axis
+        plot.XLabel($"longitude (degrees east); {Coastlines.Attribution}");
         plot.YLabel("latitude (degrees north)");
         plot.Axes.SetLimits(left, right, -90, 90);
         if (!label)
