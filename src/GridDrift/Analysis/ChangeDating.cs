@@ -3,7 +3,7 @@ namespace GridDrift.Analysis;
 /// <summary>
 /// A bootstrap interval for the date of a change: series are rebuilt as the fitted step (the means
 /// on either side) plus noise from the sieve AR with resampled innovations (Bühlmann 1997,
-/// Bernoulli 3: 123), the change is placed in each as in the data (whitened Pettitt split), and
+/// Bernoulli 3: 123), the change is placed in each as in the data (the series' Pettitt split), and
 /// the 2.5 and 97.5 percentiles of the placements bound the date. Deterministic for a seed.
 /// </summary>
 internal static class ChangeDating
@@ -26,15 +26,12 @@ internal static class ChangeDating
         for (int i = 0; i < pool.Length; i++) pool[i] -= centre;
         var rng = new Random(seed);
         var y = new double[n];
-        var e = new double[n - ar.Order];
         var placed = new int[replicates];
         for (int b = 0; b < replicates; b++)
         {
             ar.Simulate(rng, pool, y);
             for (int i = 0; i < n; i++) y[i] += step[i];
-            ar.Whiten(y, e);
-            var r = Pettitt.Test(e);
-            placed[b] = r.LastBefore + 1 + ar.Order;
+            placed[b] = Pettitt.Test(y).LastBefore + 1;
         }
         Array.Sort(placed);
         return (placed[(int)Math.Floor(0.025 * (replicates - 1))], placed[(int)Math.Ceiling(0.975 * (replicates - 1))]);

@@ -47,7 +47,7 @@ internal static class Prewhitened
     /// <summary>The p-value below which the split-means test's shift is taken as certain (<see cref="NoiseFit.Guarded"/>).</summary>
     public const double CertainShift = 1e-4;
 
-    /// <summary>Pettitt's test on the whitened series; the change is placed by the whitened series' Pettitt split.</summary>
+    /// <summary>Pettitt's test on the whitened series; the change is placed at the series' own Pettitt split.</summary>
     public static ShiftVerdict Pettitt(ReadOnlySpan<double> x, NoiseFit fit = NoiseFit.Guarded)
     {
         if (fit == NoiseFit.Guarded)
@@ -62,7 +62,10 @@ internal static class Prewhitened
         var e = ar.Whiten(x);
         var r = GridDrift.Analysis.Pettitt.Test(e);
         if (r.LastBefore < 0) return new ShiftVerdict(-1, double.NaN, double.NaN, double.NaN, ar);
-        return new ShiftVerdict(r.LastBefore + 1 + ar.Order, r.K, r.P, GridDrift.Analysis.Pettitt.Log10P(r.K, e.Length), ar);
+        // the whitened series says how sure; the series itself says where: whitening keeps only
+        // δ(1 − Σa) of a step, which under strong persistence leaves its place to the noise
+        int at = GridDrift.Analysis.Pettitt.Test(x).LastBefore + 1;
+        return new ShiftVerdict(at, r.K, r.P, GridDrift.Analysis.Pettitt.Log10P(r.K, e.Length), ar);
     }
 
     /// <summary>Mann–Kendall on the series whitened by the AR of its Sen-detrended values.</summary>
