@@ -76,15 +76,12 @@ internal static class Prewhitened
         for (int i = 0; i < n; i++) detrended[i] = x[i] - senSlope * t[i];
         var ar = Autoregression.Fit(detrended);
         var e = ar.Whiten(x);
-        if (e.Length < 3) return new TrendVerdict(e.Length, 0, double.NaN, double.NaN, double.NaN, double.NaN, ar);
-        long s = Ranks.KendallS(e);
-        double variance = GridDrift.Analysis.MannKendall.VarianceOfS(e);
-        double z = GridDrift.Analysis.MannKendall.ZOf(s, variance);
-        return new TrendVerdict(e.Length, s, variance, z, PValues.TwoSidedNormal(z), PValues.Log10TwoSidedNormal(z), ar);
+        var mk = GridDrift.Analysis.MannKendall.Test(e);
+        return new TrendVerdict(mk.N, mk.S, mk.VarS, mk.Z, mk.P, double.IsNaN(mk.Z) ? double.NaN : PValues.Log10TwoSidedNormal(mk.Z), ar);
     }
 
     /// <summary>The series less what is not noise under the chosen fit.</summary>
-    public static double[] Noise(ReadOnlySpan<double> x, NoiseFit fit)
+    static double[] Noise(ReadOnlySpan<double> x, NoiseFit fit)
     {
         int n = x.Length;
         var noise = x.ToArray();

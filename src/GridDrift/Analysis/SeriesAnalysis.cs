@@ -62,7 +62,7 @@ internal sealed record SeriesFindings(
     public SeriesFindings WithQ(ReadOnlySpan<double> q)
     {
         int k = 0;
-        var changes = ChangePoints.Select(c => c with { Q = double.NaN }).ToList();
+        var changes = ChangePoints.ToList();
         for (int i = 0; i < changes.Count; i++) changes[i] = changes[i] with { Q = q[k++] };
         var trend = Trend with { Q = q[k++] };
         var segments = Segments.ToList();
