@@ -8,6 +8,7 @@ using GridDrift.Benchmarks;
 //   longrecord [FRAMES] [--dir DIR]   one year of hourly 0.5° frames (9.1 GB) through stats, similarity, climatology: frames/s, peak memory, where the time goes
 //   similarity [PAIRS]                 SSIM and VIF of 721 × 1440 pairs vs scikit-image and numpy/scipy; memory over 100 and 10,000 frames
 //   calibration [SERIES] [--hourly N]   false alarms and power of every change and trend verdict on simulated persistent seasonal series
+//   native [FRAMES] [--dir DIR]       3712 × 3712 frames over 163 regions: similarity ssim,vif, vif, stats: time per pair and peak memory
 //   images [FILES] [--dir DIR]         FILES one-image 500 × 500 int16 files vs the same frames stacked in one file, through stats
 return args.FirstOrDefault() switch
 {
@@ -22,6 +23,8 @@ return args.FirstOrDefault() switch
     "longrecord" => LongRecordBenchmark.Run(args[1..]),
     "longrecord-one" => LongRecordBenchmark.RunOne(args[1..]),
     "images" => ImagesBenchmark.Run(args[1..]),
+    "native" => NativeBenchmark.Run(args[1..]),
+    "native-one" => NativeBenchmark.RunOne(args[1..]),
     "calibration" => CalibrationBenchmark.Run(args[1..]),
     _ => Usage(),
 };

@@ -5,13 +5,10 @@ namespace GridDrift.Regions;
 /// <summary>
 /// The regions of one analysis on one grid, built once: their shapes, the fractional cover of
 /// every cell (<see cref="RegionMask"/>), the separable row-and-column factors where every region
-/// is a latitude-longitude box on a latitude-longitude grid (<see cref="SeparablePlan"/>), and
-/// each region's bounding index box. Every per-region operator takes one.
+/// is a latitude-longitude box on a latitude-longitude grid (<see cref="SeparablePlan"/>). Every per-region operator takes one.
 /// </summary>
 public sealed class RegionSet
 {
-    RegionBox[]? _boxes;
-
     RegionSet(Grid grid, IReadOnlyList<RegionShape> shapes, RegionMask mask, SeparablePlan? separable)
     {
         Grid = grid;
@@ -35,7 +32,4 @@ public sealed class RegionSet
 
     internal RegionMask Mask { get; }
     internal SeparablePlan? Separable { get; }
-
-    /// <summary>The bounding index box of each region's cells (for operators that need a rectangle, such as VIF).</summary>
-    internal RegionBox[] Boxes => _boxes ??= RegionBox.Of(Grid, Mask);
 }

@@ -9,7 +9,8 @@ namespace GridDrift.Operators.Similarity;
 
 /// <summary>
 /// The pair metrics of one pair of frames per region — SSIM (area-weighted mean of the SSIM
-/// map), VIF (on each region's bounding box), correlation, RMS difference, mean absolute change
+/// map), VIF (ratio of the region's area-weighted sums of the frame's VIF term maps,
+/// <see cref="VifField"/>), correlation, RMS difference, mean absolute change
 /// and bias — handed to a series sink in time order, stamped with the later frame's time (and the
 /// earlier one's, for frame-to-frame pairs).
 /// </summary>
@@ -22,7 +23,7 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
     readonly bool _periodic;
     readonly IReadOnlyList<SimilarityMetric> _metrics;
     readonly double _minValid;
-    readonly RegionBox[] _boxes;
+    readonly bool _wantsVif;
     readonly IReadOnlyList<CfTime> _laterTimes;
     readonly IReadOnlyList<CfTime>? _earlierTimes;
     readonly ISeriesSink _sink;
@@ -31,10 +32,14 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
     public sealed class Worker
     {
         public required Ssim Ssim;
-        public required Vif Vif;
+        public required VifField? Vif;
         public required RegionReducer MapReducer;
         public required float[] Map;
         public required double[] MapStats;
+        public required float[] VifNum;
+        public required float[] VifDen;
+        public required double[] VifNumStats;
+        public required double[] VifDenStats;
         public required double[] PairStats;
         public required SeparablePairReducer? Pairs;
         public required double[] Values;
@@ -53,7 +58,7 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
         _periodic = periodic;
         _metrics = metrics;
         _minValid = minValid;
-        _boxes = metrics.Contains(SimilarityMetric.Vif) ? regions.Boxes : [];
+        _wantsVif = metrics.Contains(SimilarityMetric.Vif);
         _laterTimes = laterTimes;
         _earlierTimes = earlierTimes;
         _sink = sink;
@@ -67,10 +72,14 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
         var w = new Worker
         {
             Ssim = new Ssim(_grid.Rows, _grid.Columns, _periodic, _range.Low, _range.High),
-            Vif = new Vif(),
+            Vif = _wantsVif ? new VifField(_grid.Rows, _grid.Columns, _periodic, _range.Low, _range.High) : null,
             MapReducer = new RegionReducer(_mask, [RegionStatistic.Mean, RegionStatistic.Valid], _plan),
             Map = _metrics.Contains(SimilarityMetric.Ssim) ? new float[_grid.CellCount] : [],
             MapStats = new double[_mask.Count * 2],
+            VifNum = _wantsVif ? new float[_grid.CellCount] : [],
+            VifDen = _wantsVif ? new float[_grid.CellCount] : [],
+            VifNumStats = new double[_mask.Count * 2],
+            VifDenStats = new double[_mask.Count * 2],
             PairStats = new double[_mask.Count * PairReducer.Stride],
             Pairs = _plan is null ? null : new SeparablePairReducer(_plan),
             Values = new double[_mask.Count * _metrics.Count],
@@ -91,6 +100,12 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
             w.Ssim.Map(a, b, w.Map);
             w.MapReducer.Reduce(w.Map, w.MapStats);
         }
+        if (w.Vif is { } vif)
+        {
+            vif.Terms(a, b, w.VifNum, w.VifDen);
+            w.MapReducer.Reduce(w.VifNum, w.VifNumStats);
+            w.MapReducer.Reduce(w.VifDen, w.VifDenStats);
+        }
         for (int r = 0; r < _mask.Count; r++)
         {
             double valid = w.PairStats[PairReducer.Stride * r + 3];
@@ -105,7 +120,8 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
                     SimilarityMetric.Rmsd => w.PairStats[PairReducer.Stride * r + 1],
                     SimilarityMetric.MeanAbsChange => w.PairStats[PairReducer.Stride * r + 2],
                     SimilarityMetric.Bias => w.PairStats[PairReducer.Stride * r + 4],
-                    SimilarityMetric.Vif => RegionVif.OfBox(w.Vif, _boxes[r], _grid.Columns, a, b, _range, _minValid),
+                    // both maps have the same valid cells, so the ratio of their means is Σw·num / Σw·den
+                    SimilarityMetric.Vif => w.VifDenStats[2 * r] > 0 ? w.VifNumStats[2 * r] / w.VifDenStats[2 * r] : double.NaN,
                     _ => double.NaN,
                 };
                 w.Values[r * nq + q] = value;

@@ -19,9 +19,6 @@ internal sealed class Vif
     readonly SeparableFilter[] _filters = Enumerable.Range(1, 4)
         .Select(s => { int n = (1 << (5 - s)) + 1; return new SeparableFilter(GaussianKernel.WithRadius(n / 5.0, n / 2)); }).ToArray();
 
-    /// <summary>Smallest box side for which the fourth scale keeps at least one position.</summary>
-    public const int MinimumSide = 40;
-
     // scratch reused call after call (one instance per worker): no allocation per pair once grown
     double[] _r = [], _d = [], _rf = [], _df = [], _mu1 = [], _mu2 = [], _s11 = [], _s22 = [], _s12 = [];
 
