@@ -33,6 +33,16 @@ internal sealed class SeparablePlan
         RadiusSquared = grid.EarthRadius * grid.EarthRadius;
     }
 
+    /// <summary>Each box's area on the sphere, m²: R² Σ_j Δsinφ_j(b) · Σ_i Δλ_i(b), as the cells' areas inside it add up.</summary>
+    public double[] BoxAreas() => Boxes.Select(b =>
+    {
+        double across = Ranges[b.Range].Width.Where(w => w > 0).Sum();
+        return RadiusSquared * b.RowFactor.Sum() * across;
+    }).ToArray();
+
+    /// <summary>Cells a box covers at most (its rows × its range's columns).</summary>
+    public int CellsOf(int box) => Boxes[box].RowFactor.Length * Ranges[Boxes[box].Range].Count;
+
     /// <summary>A plan for the regions, or null when a region is not a box or the grid is not rectilinear.</summary>
     public static SeparablePlan? TryBuild(Grid grid, IReadOnlyList<RegionShape> regions)
     {

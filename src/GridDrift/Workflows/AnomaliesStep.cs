@@ -88,12 +88,11 @@ internal static class AnomaliesStep
                 throw new BadInputException(source.Files[0], o.Variable, "frames with dimensions other than time, latitude and longitude cannot be reduced to regions");
             var shapes = RegionSpecs.ParseInput(o.Regions);
             regions = RegionSet.Build(grid, shapes);
-            var mask = regions.Mask;
             seriesPath = o.Series ?? (o.Output is { } output ? DefaultSeriesPath(output)
                 : throw new ArgumentException("anomalies without a field file need a series path"));
             var calendarAttribute0 = source.Template.RequireVariable(source.Axes.Time!.Name).Attributes.Text("calendar") ?? "standard";
             string quantity = o.Kind == AnomalyKind.Absolute ? "anomaly" : o.Kind.Name() + "_anomaly";
-            var layout = new SeriesLayout(o.Variable, mask.Names, mask.RegionArea,
+            var layout = new SeriesLayout(o.Variable, regions.Names, regions.Areas,
                 [new SeriesQuantity(quantity, "area-weighted mean of the " + longName, anomalyUnits, "area: mean")],
                 source.TimeUnits, calendarAttribute0, provenance, extra, Scalars: SelectionScalars.Of(source));
             series = new SeriesProducts(seriesPath, o.Table, layout, o.Format);

@@ -182,7 +182,7 @@ public sealed class GridRecord : IDisposable
                 ["earth_radius_m"] = Grid.EarthRadius.ToString("R", CultureInfo.InvariantCulture),
                 ["min_valid"] = minValid.ToString("R", CultureInfo.InvariantCulture),
                 ["ssim_window"] = "Gaussian sigma 1.5, 11 taps; longitude " + (Ssim.PeriodicFor(Grid) ? "periodic" : "reflected") + ", latitude reflected; normalised convolution over missing cells",
-                ["vif_domain"] = "pixel-domain multi-scale VIF on each region's bounding index box, values rescaled to 0-255 over the data range",
+                ["vif_domain"] = "pixel-domain multi-scale VIF terms over the whole frame, summed over each region with cell areas (Sigma w num / Sigma w den), values rescaled to 0-255 over the data range",
                 ["skipped_pairs"] = skipped.Count == 0 ? "none" : string.Join("; ", skipped.Select(s => $"{s.Earlier.ToIsoString()}/{s.Later.ToIsoString()}")),
             },
             HasTimeBounds: withBounds, Scalars: Scalars);

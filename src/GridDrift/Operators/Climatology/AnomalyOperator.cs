@@ -17,8 +17,7 @@ internal sealed class AnomalyOperator : IFrameOperator<AnomalyOperator.Worker>
     readonly SlotScheme _scheme;
     readonly float[] _mean, _std;
     readonly int _cells;
-    readonly RegionMask? _mask;
-    readonly SeparablePlan? _plan;
+    readonly RegionSet? _regions;
     readonly double _minValid;
     readonly IReadOnlyList<CfTime> _times;
     readonly IFieldSink? _fields;
@@ -43,21 +42,20 @@ internal sealed class AnomalyOperator : IFrameOperator<AnomalyOperator.Worker>
         _mean = mean;
         _std = std;
         _cells = cells;
-        _mask = regions?.Mask;
-        _plan = regions?.Separable;
+        _regions = regions;
         _minValid = minValid;
         _times = times;
         _fields = fields;
         _series = series;
-        _values = new double[_mask?.Count ?? 0];
-        _valid = new double[_mask?.Count ?? 0];
+        _values = new double[regions?.Count ?? 0];
+        _valid = new double[regions?.Count ?? 0];
     }
 
     /// <summary>Frames that fell in no slot of the climatology.</summary>
     public int FramesWithoutSlot { get; private set; }
 
     public Worker NewWorker() => new(new float[_cells],
-        _mask is null ? null : new RegionReducer(_mask, [RegionStatistic.Mean, RegionStatistic.Valid], _plan), new double[(_mask?.Count ?? 0) * 2]);
+        _regions is null ? null : new RegionReducer(_regions, [RegionStatistic.Mean, RegionStatistic.Valid]), new double[(_regions?.Count ?? 0) * 2]);
 
     public void Process(Worker w, int frame, in FrameInputs inputs)
     {

@@ -29,7 +29,7 @@ internal sealed class SeparablePairReducer
     }
 
     /// <summary>Per box r writes output[5r … 5r+4] = corr, rmsd, mean absolute change, valid fraction, bias (later − earlier).</summary>
-    public void Reduce(ReadOnlySpan<float> earlier, ReadOnlySpan<float> later, ReadOnlySpan<double> regionArea, Span<double> output)
+    public void Reduce(ReadOnlySpan<float> earlier, ReadOnlySpan<float> later, IReadOnlyList<double> regionArea, Span<double> output)
     {
         float shift = float.NaN;
         for (int i = 0; i < earlier.Length; i++)

@@ -41,7 +41,7 @@ public static class SimilarityMetrics
     public static SeriesQuantity Quantity(this SimilarityMetric m, string variable, string units) => m switch
     {
         SimilarityMetric.Ssim => new("ssim", $"area-weighted mean structural similarity of {variable} between the paired frames", "1", "area: mean"),
-        SimilarityMetric.Vif => new("vif", $"visual information fidelity of {variable} (later frame against earlier) on the region's bounding box", "1", ""),
+        SimilarityMetric.Vif => new("vif", $"visual information fidelity of {variable} (later frame against earlier), region sums of the frame's VIF terms", "1", ""),
         SimilarityMetric.Corr => new("corr", $"area-weighted Pearson correlation of {variable} between the paired frames", "1", ""),
         SimilarityMetric.Rmsd => new("rmsd", $"area-weighted root-mean-square difference of {variable} between the paired frames", units, ""),
         SimilarityMetric.Bias => new("bias", $"area-weighted mean difference of {variable}, later (candidate) minus earlier (reference)", units, "area: mean"),

@@ -17,7 +17,7 @@ namespace GridDrift.Operators.Similarity;
 internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Worker>
 {
     readonly Grid _grid;
-    readonly RegionMask _mask;
+    readonly RegionSet _regions;
     readonly SeparablePlan? _plan;
     readonly DataRange _range;
     readonly bool _periodic;
@@ -52,7 +52,7 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
         IReadOnlyList<CfTime> laterTimes, IReadOnlyList<CfTime>? earlierTimes, ISeriesSink sink)
     {
         _grid = regions.Grid;
-        _mask = regions.Mask;
+        _regions = regions;
         _plan = regions.Separable;
         _range = range;
         _periodic = periodic;
@@ -73,17 +73,17 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
         {
             Ssim = new Ssim(_grid.Rows, _grid.Columns, _periodic, _range.Low, _range.High),
             Vif = _wantsVif ? new VifField(_grid.Rows, _grid.Columns, _periodic, _range.Low, _range.High) : null,
-            MapReducer = new RegionReducer(_mask, [RegionStatistic.Mean, RegionStatistic.Valid], _plan),
+            MapReducer = new RegionReducer(_regions, [RegionStatistic.Mean, RegionStatistic.Valid]),
             Map = _metrics.Contains(SimilarityMetric.Ssim) ? new float[_grid.CellCount] : [],
-            MapStats = new double[_mask.Count * 2],
+            MapStats = new double[_regions.Count * 2],
             VifNum = _wantsVif ? new float[_grid.CellCount] : [],
             VifDen = _wantsVif ? new float[_grid.CellCount] : [],
-            VifNumStats = new double[_mask.Count * 2],
-            VifDenStats = new double[_mask.Count * 2],
-            PairStats = new double[_mask.Count * PairReducer.Stride],
+            VifNumStats = new double[_regions.Count * 2],
+            VifDenStats = new double[_regions.Count * 2],
+            PairStats = new double[_regions.Count * PairReducer.Stride],
             Pairs = _plan is null ? null : new SeparablePairReducer(_plan),
-            Values = new double[_mask.Count * _metrics.Count],
-            Valid = new double[_mask.Count],
+            Values = new double[_regions.Count * _metrics.Count],
+            Valid = new double[_regions.Count],
         };
         lock (_workers) _workers.Add(w);
         return w;
@@ -93,8 +93,8 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
     {
         int nq = _metrics.Count;
         foreach (var v in b) if (v < _range.Low || v > _range.High) w.Outside++;
-        if (w.Pairs is { } separable) separable.Reduce(a, b, _mask.RegionArea, w.PairStats);
-        else PairReducer.Reduce(_mask, a, b, w.PairStats);
+        if (w.Pairs is { } separable) separable.Reduce(a, b, _regions.Areas, w.PairStats);
+        else PairReducer.Reduce(_regions.Mask, a, b, w.PairStats);
         if (_metrics.Contains(SimilarityMetric.Ssim))
         {
             w.Ssim.Map(a, b, w.Map);
@@ -106,7 +106,7 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
             w.MapReducer.Reduce(w.VifNum, w.VifNumStats);
             w.MapReducer.Reduce(w.VifDen, w.VifDenStats);
         }
-        for (int r = 0; r < _mask.Count; r++)
+        for (int r = 0; r < _regions.Count; r++)
         {
             double valid = w.PairStats[PairReducer.Stride * r + 3];
             w.Valid[r] = valid;

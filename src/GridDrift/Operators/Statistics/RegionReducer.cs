@@ -13,7 +13,9 @@ namespace GridDrift.Operators.Statistics;
 /// </summary>
 internal sealed class RegionReducer
 {
-    readonly RegionMask _mask;
+    readonly RegionMask? _mask;
+    readonly int _count;
+    readonly IReadOnlyList<double> _regionArea;
     readonly RegionStatistic[] _statistics;
     readonly double[] _probabilities;
     readonly int[] _quantileSlots;
@@ -21,23 +23,35 @@ internal sealed class RegionReducer
     readonly double[] _weights;
     readonly double[] _quantileResults;
     readonly SeparableReducer? _separable;
+    readonly BoxQuantiles? _boxQuantiles;
     readonly double[] _moments;
 
-    /// <param name="plan">the box fast path for moments and extremes, where the regions allow it</param>
-    public RegionReducer(RegionMask mask, IReadOnlyList<RegionStatistic> statistics, SeparablePlan? plan = null)
+    /// <summary>A reducer over the regions' boxes where they are separable (<see cref="SeparablePlan"/>), else over their mask.</summary>
+    public RegionReducer(RegionSet regions, IReadOnlyList<RegionStatistic> statistics)
+        : this(regions.Separable is null ? regions.Mask : null, regions.Separable, regions.Count, regions.Areas, statistics) { }
+
+    /// <summary>A reducer over the mask's cells, region by region.</summary>
+    public RegionReducer(RegionMask mask, IReadOnlyList<RegionStatistic> statistics)
+        : this(mask, null, mask.Count, mask.RegionArea, statistics) { }
+
+    RegionReducer(RegionMask? mask, SeparablePlan? plan, int count, IReadOnlyList<double> regionArea, IReadOnlyList<RegionStatistic> statistics)
     {
-        _separable = plan is null ? null : new SeparableReducer(plan);
-        _moments = plan is null ? [] : new double[5 * mask.Count];
         _mask = mask;
+        _count = count;
+        _regionArea = regionArea;
         _statistics = statistics.ToArray();
         var quantiles = _statistics.Select((s, i) => (s.Quantile(), i)).Where(x => x.Item1 is not null).ToArray();
         _probabilities = quantiles.Select(q => q.Item1!.Value).ToArray();
         _quantileSlots = quantiles.Select(q => q.i).ToArray();
-        int largest = 0;
-        for (int r = 0; r < mask.Count; r++) largest = Math.Max(largest, mask.RowStart[r + 1] - mask.RowStart[r]);
-        _values = _probabilities.Length > 0 ? new float[largest] : [];
-        _weights = _probabilities.Length > 0 ? new double[largest] : [];
         _quantileResults = new double[_probabilities.Length];
+        _separable = plan is null ? null : new SeparableReducer(plan);
+        _boxQuantiles = plan is not null && _probabilities.Length > 0 ? new BoxQuantiles(plan) : null;
+        _moments = plan is null ? [] : new double[5 * count];
+        int largest = 0;
+        if (mask is not null && _probabilities.Length > 0)
+            for (int r = 0; r < mask.Count; r++) largest = Math.Max(largest, mask.RowStart[r + 1] - mask.RowStart[r]);
+        _values = new float[largest];
+        _weights = new double[largest];
     }
 
     public IReadOnlyList<RegionStatistic> Statistics => _statistics;
@@ -51,10 +65,11 @@ internal sealed class RegionReducer
             return;
         }
         int ns = _statistics.Length;
-        for (int r = 0; r < _mask.Count; r++)
+        var mask = _mask!;
+        for (int r = 0; r < _count; r++)
         {
-            var cells = _mask.CellsOf(r);
-            var areas = _mask.AreasOf(r);
+            var cells = mask.CellsOf(r);
+            var areas = mask.AreasOf(r);
             double sw = 0, swd = 0, swd2 = 0, shift = double.NaN;
             float min = float.PositiveInfinity, max = float.NegativeInfinity;
             int n = 0;
@@ -90,7 +105,7 @@ internal sealed class RegionReducer
                     RegionStatistic.Std => Math.Sqrt(variance),
                     RegionStatistic.Min => n > 0 ? min : double.NaN,
                     RegionStatistic.Max => n > 0 ? max : double.NaN,
-                    RegionStatistic.Valid => ValidFraction.Of(sw, _mask.RegionArea[r]),
+                    RegionStatistic.Valid => ValidFraction.Of(sw, _regionArea[r]),
                     _ => double.NaN,
                 };
             }
@@ -102,8 +117,8 @@ internal sealed class RegionReducer
     {
         _separable!.Reduce(frame, _moments);
         int ns = _statistics.Length;
-        bool wantQuantiles = _probabilities.Length > 0;
-        for (int r = 0; r < _mask.Count; r++)
+        _boxQuantiles?.Bin(frame);
+        for (int r = 0; r < _count; r++)
         {
             var m = _moments.AsSpan(5 * r, 5);
             var slot = output.Slice(r * ns, ns);
@@ -115,23 +130,13 @@ internal sealed class RegionReducer
                     RegionStatistic.Std => Math.Sqrt(m[2]),
                     RegionStatistic.Min => m[3],
                     RegionStatistic.Max => m[4],
-                    RegionStatistic.Valid => ValidFraction.Of(m[0], _mask.RegionArea[r]),
+                    RegionStatistic.Valid => ValidFraction.Of(m[0], _regionArea[r]),
                     _ => double.NaN,
                 };
             }
-            if (!wantQuantiles) continue;
-            var cells = _mask.CellsOf(r);
-            var areas = _mask.AreasOf(r);
-            int n = 0;
-            for (int k = 0; k < cells.Length; k++)
-            {
-                float x = frame[cells[k]];
-                if (float.IsNaN(x)) continue;
-                _values[n] = x;
-                _weights[n++] = areas[k];
-            }
-            WeightedQuantile.Evaluate(_values.AsSpan(0, n), _weights.AsSpan(0, n), _probabilities, _quantileResults);
-            for (int q = 0; q < _quantileSlots.Length; q++) slot[_quantileSlots[q]] = n > 0 ? _quantileResults[q] : double.NaN;
+            if (_boxQuantiles is null) continue;
+            _boxQuantiles.Evaluate(r, frame, m[3], m[4], _probabilities, _quantileResults);
+            for (int q = 0; q < _quantileSlots.Length; q++) slot[_quantileSlots[q]] = _quantileResults[q];
         }
     }
 }

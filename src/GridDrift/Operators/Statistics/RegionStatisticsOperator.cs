@@ -11,8 +11,7 @@ namespace GridDrift.Operators.Statistics;
 /// </summary>
 internal sealed class RegionStatisticsOperator : IFrameOperator<RegionStatisticsOperator.Worker>
 {
-    readonly RegionMask _mask;
-    readonly SeparablePlan? _plan;
+    readonly RegionSet _regions;
     readonly RegionStatistic[] _withValid;
     readonly int _quantities;
     readonly double _minValid;
@@ -30,15 +29,14 @@ internal sealed class RegionStatisticsOperator : IFrameOperator<RegionStatistics
     /// <param name="statistics">the quantities of the sink, in order (the valid fraction always goes to the sink's own column)</param>
     public RegionStatisticsOperator(RegionSet regions, IReadOnlyList<RegionStatistic> statistics, double minValid, IReadOnlyList<CfTime> times, ISeriesSink sink)
     {
-        _mask = regions.Mask;
-        _plan = regions.Separable;
+        _regions = regions;
         _withValid = statistics.Where(s => s != RegionStatistic.Valid).Append(RegionStatistic.Valid).ToArray();
         _quantities = _withValid.Length - 1;
         _minValid = minValid;
         _times = times;
         _sink = sink;
-        _values = new double[_mask.Count * _quantities];
-        _valid = new double[_mask.Count];
+        _values = new double[regions.Count * _quantities];
+        _valid = new double[regions.Count];
     }
 
     /// <summary>Region-frames left out because too little of the region held data.</summary>
@@ -47,7 +45,7 @@ internal sealed class RegionStatisticsOperator : IFrameOperator<RegionStatistics
     /// <summary>Region-frames with no data at all.</summary>
     public long NoData { get; private set; }
 
-    public Worker NewWorker() => new(new RegionReducer(_mask, _withValid, _plan), new double[_mask.Count * _withValid.Length]);
+    public Worker NewWorker() => new(new RegionReducer(_regions, _withValid), new double[_regions.Count * _withValid.Length]);
 
     public void Process(Worker worker, int frame, in FrameInputs inputs) => worker.Reducer.Reduce(inputs.Primary, worker.Result);
 
@@ -55,7 +53,7 @@ internal sealed class RegionStatisticsOperator : IFrameOperator<RegionStatistics
     {
         int stride = _withValid.Length;
         var result = worker.Result;
-        for (int r = 0; r < _mask.Count; r++)
+        for (int r = 0; r < _regions.Count; r++)
         {
             double v = result[r * stride + stride - 1];
             _valid[r] = v;

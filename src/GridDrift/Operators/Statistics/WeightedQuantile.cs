@@ -46,7 +46,7 @@ internal static class WeightedQuantile
     /// The p-quantile from a sorted run whose lower neighbours weigh <paramref name="below"/> in all;
     /// <paramref name="isFirst"/>/<paramref name="isLast"/> say whether the run holds the smallest/largest value.
     /// </summary>
-    static double FromSorted(ReadOnlySpan<float> v, ReadOnlySpan<double> w, double below, double total, double p, bool isFirst, bool isLast)
+    internal static double FromSorted(ReadOnlySpan<float> v, ReadOnlySpan<double> w, double below, double total, double p, bool isFirst, bool isLast)
     {
         double target = p * total;
         double previousMid = double.NaN, previousValue = double.NaN;
@@ -105,24 +105,13 @@ internal static class WeightedQuantile
             binCount[b]++;
         }
 
-        // per probability: the bins [first, last] that hold the bracketing values, and the weight below them
         Span<int> first = stackalloc int[nq];
         Span<int> last = stackalloc int[nq];
         Span<double> below = stackalloc double[nq];
         Span<int> offset = stackalloc int[nq + 1];
+        Brackets(binWeight, total, probabilities, first, last, below);
         for (int q = 0; q < nq; q++)
         {
-            double target = probabilities[q] * total, cumulative = 0;
-            int k = 0;
-            for (; k < Bins - 1; k++)
-            {
-                if (cumulative + binWeight[k] >= target && binCount[k] > 0) break;
-                cumulative += binWeight[k];
-            }
-            first[q] = last[q] = k;
-            below[q] = cumulative;
-            for (int b = k - 1; b >= 0; b--) if (binCount[b] > 0) { first[q] = b; below[q] -= binWeight[b]; break; }
-            for (int b = k + 1; b < Bins; b++) if (binCount[b] > 0) { last[q] = b; break; }
             int count = 0;
             for (int b = first[q]; b <= last[q]; b++) count += binCount[b];
             offset[q + 1] = offset[q] + count;
@@ -133,14 +122,11 @@ internal static class WeightedQuantile
         offset[..nq].CopyTo(fill);
         var pickedValues = _pickedValues.AsSpan();  // thread-static fields are slow to reach: hoist them out of the loop
         var pickedWeights = _pickedWeights!.AsSpan();
-        int lowestBin = Bins, highestBin = -1;
-        for (int q = 0; q < nq; q++) { lowestBin = Math.Min(lowestBin, first[q]); highestBin = Math.Max(highestBin, last[q]); }
         for (int i = 0; i < n; i++)
         {
             int b = bin[i];
-            if (b < lowestBin || b > highestBin) continue;
             for (int q = 0; q < nq; q++)
-                if (b >= first[q] && b <= last[q])
+                if ((uint)(b - first[q]) <= (uint)(last[q] - first[q]))
                 {
                     pickedValues[fill[q]] = values[i];
                     pickedWeights[fill[q]++] = weights[i];
@@ -148,13 +134,43 @@ internal static class WeightedQuantile
         }
         for (int q = 0; q < nq; q++)
         {
-            var pv = _pickedValues.AsSpan(offset[q], offset[q + 1] - offset[q]);
-            var pw = _pickedWeights!.AsSpan(offset[q], pv.Length);
-            pv.Sort(pw);
-            bool lowest = true, highest = true;
-            for (int b = 0; b < first[q]; b++) if (binCount[b] > 0) { lowest = false; break; }
-            for (int b = last[q] + 1; b < Bins; b++) if (binCount[b] > 0) { highest = false; break; }
-            results[q] = FromSorted(pv, pw, below[q], total, probabilities[q], lowest, highest);
+            bool lowest = !binWeight[..first[q]].ContainsAnyExcept(0.0), highest = !binWeight[(last[q] + 1)..].ContainsAnyExcept(0.0);
+            results[q] = FromPicked(pickedValues[offset[q]..offset[q + 1]], pickedWeights[offset[q]..offset[q + 1]], below[q], total, probabilities[q], lowest, highest);
         }
+    }
+
+    /// <summary>
+    /// Per probability: the histogram bins [first, last] that hold the two bracketing values (the
+    /// first non-empty bin reaching the target weight and its non-empty neighbours) and the weight
+    /// of all bins below them. Weights are positive, so a bin is empty when its weight is 0.
+    /// </summary>
+    internal static void Brackets(ReadOnlySpan<double> binWeight, double total, ReadOnlySpan<double> probabilities,
+        Span<int> first, Span<int> last, Span<double> below)
+    {
+        int bins = binWeight.Length, k = 0;
+        double cumulative = 0, previous = double.NegativeInfinity;
+        for (int q = 0; q < probabilities.Length; q++)
+        {
+            double target = probabilities[q] * total;
+            // probabilities in ascending order (the usual request) resume the walk where the last one stopped
+            if (target < previous) { k = 0; cumulative = 0; }
+            previous = target;
+            for (; k < bins - 1; k++)
+            {
+                if (cumulative + binWeight[k] >= target && binWeight[k] > 0) break;
+                cumulative += binWeight[k];
+            }
+            first[q] = last[q] = k;
+            below[q] = cumulative;
+            for (int b = k - 1; b >= 0; b--) if (binWeight[b] > 0) { first[q] = b; below[q] -= binWeight[b]; break; }
+            for (int b = k + 1; b < bins; b++) if (binWeight[b] > 0) { last[q] = b; break; }
+        }
+    }
+
+    /// <summary>Sorts the picked cells of one probability and reads its quantile off them, knowing the weight below.</summary>
+    internal static double FromPicked(Span<float> values, Span<double> weights, double below, double total, double p, bool lowest, bool highest)
+    {
+        values.Sort(weights);
+        return FromSorted(values, weights, below, total, p, lowest, highest);
     }
 }
