@@ -13,11 +13,23 @@ public sealed class Grid
     public required int Rows { get; init; }
     public required int Columns { get; init; }
     public required double EarthRadius { get; init; }
+    // per-cell arrays are 330 MB at 3712 × 3712: a rectilinear grid builds them from its axes only when asked
+    Lazy<double[]> _centerLat = null!, _centerLon = null!, _cellArea = null!;
+
     /// <summary>Per cell (row-major over rows, columns): centre latitude and longitude in degrees.</summary>
-    public required double[] CenterLat { get; init; }
-    public required double[] CenterLon { get; init; }
+    public double[] CenterLat { get => _centerLat.Value; init => _centerLat = new(value); }
+    public double[] CenterLon { get => _centerLon.Value; init => _centerLon = new(value); }
     /// <summary>Per cell: area in m²; 0 for cells that do not exist (off the Earth's disk).</summary>
-    public required double[] CellArea { get; init; }
+    public double[] CellArea { get => _cellArea.Value; init => _cellArea = new(value); }
+
+    /// <summary>The per-cell arrays made on first use (rectilinear grids).</summary>
+    internal Func<double[]> CenterLatOnDemand { init => _centerLat = new(value); }
+    internal Func<double[]> CenterLonOnDemand { init => _centerLon = new(value); }
+    internal Func<double[]> CellAreaOnDemand { init => _cellArea = new(value); }
+
+    /// <summary>Rectilinear grids: the 1-D latitude (per row) and longitude (per column) axes, in file order.</summary>
+    public double[]? RowLatitudes { get; init; }
+    public double[]? ColumnLongitudes { get; init; }
     /// <summary>Rectilinear grids: the Rows + 1 latitude edges and Columns + 1 longitude edges, in file order.</summary>
     public double[]? LatEdges { get; init; }
     public double[]? LonEdges { get; init; }

@@ -27,32 +27,31 @@ internal static class RectilinearGrid
         double[]? latEdges, double[]? lonEdges, double[]? cornerLat, double[]? cornerLon)
     {
         int ny = lat.Length, nx = lon.Length;
-        var area = new double[ny * nx];
-        var clat = new double[ny * nx];
-        var clon = new double[ny * nx];
-        for (int j = 0; j < ny; j++)
-            for (int i = 0; i < nx; i++)
-            {
-                int cell = j * nx + i;
-                area[cell] = radius * radius * unitArea(j, i) * Math.PI / 180;
-                clat[cell] = lat[j];
-                clon[cell] = lon[i];
-            }
         return new Grid
         {
             Kind = HorizontalGrid.FromAxes(lat, lon).Kind,
             Rows = ny,
             Columns = nx,
             EarthRadius = radius,
-            CenterLat = clat,
-            CenterLon = clon,
-            CellArea = area,
+            CenterLatOnDemand = () => PerCell(ny, nx, (j, _) => lat[j]),
+            CenterLonOnDemand = () => PerCell(ny, nx, (_, i) => lon[i]),
+            CellAreaOnDemand = () => PerCell(ny, nx, (j, i) => radius * radius * unitArea(j, i) * Math.PI / 180),
+            RowLatitudes = lat,
+            ColumnLongitudes = lon,
             LatEdges = latEdges,
             LonEdges = lonEdges,
             CornerLat = cornerLat,
             CornerLon = cornerLon,
             ColumnsFirst = columnsFirst,
         };
+    }
+
+    static double[] PerCell(int rows, int columns, Func<int, int, double> value)
+    {
+        var values = new double[rows * columns];
+        for (int j = 0; j < rows; j++)
+            for (int i = 0; i < columns; i++) values[j * columns + i] = value(j, i);
+        return values;
     }
 
     /// <summary>

@@ -42,9 +42,7 @@ internal sealed class Ssim
 
     /// <summary>Whether SSIM's windows wrap around in longitude: a latitude-longitude grid whose columns go round the globe.</summary>
     public static bool PeriodicFor(Grid grid) =>
-        grid.IsRectilinear && HorizontalGrid.FromAxes(
-            Enumerable.Range(0, grid.Rows).Select(j => grid.CenterLat[j * grid.Columns]).ToArray(),
-            grid.CenterLon.AsSpan(0, grid.Columns).ToArray()).IsGlobalInLongitude;
+        grid.IsRectilinear && grid.RowLatitudes is { } lat && grid.ColumnLongitudes is { } lon && HorizontalGrid.FromAxes(lat, lon).IsGlobalInLongitude;
 
     public Ssim(int rows, int columns, bool periodicX, double rangeLow, double rangeHigh)
     {
