@@ -21,9 +21,12 @@ internal sealed class BandFilter
     /// <summary>Takes output row <paramref name="row"/> (in output rows) of every field: filtered[f][0 … output columns).</summary>
     public delegate void RowSink(int row, float[][] filtered);
 
+    const int Block = 4; // output rows filtered together down the columns (step 1): each loaded row serves four of them
     readonly float[] _kernel;
-    readonly int _radius, _taps, _fields, _rows, _columns, _step, _outColumns;
-    readonly float[][] _padded, _ring, _out;
+    readonly float[] _blockKernel; // the kernel with Block − 1 zeros on each side: a block's taps without branches
+    readonly int _radius, _taps, _fields, _rows, _columns, _step, _outColumns, _slots;
+    readonly float[][] _padded, _ring;
+    readonly float[][][] _out; // per output row of a block, per field
     readonly float[] _along;
     readonly int[] _cached, _sources;
 
@@ -38,11 +41,14 @@ internal sealed class BandFilter
         _step = step;
         _outColumns = (columns + step - 1) / step;
         _padded = Enumerable.Range(0, fields).Select(_ => new float[columns + 2 * _radius + Vector256<float>.Count]).ToArray();
-        _ring = Enumerable.Range(0, fields).Select(_ => new float[_taps * _outColumns]).ToArray();
-        _out = Enumerable.Range(0, fields).Select(_ => new float[_outColumns]).ToArray();
+        _slots = _taps + Block - 1;
+        _blockKernel = new float[_taps + 2 * (Block - 1)];
+        _kernel.CopyTo(_blockKernel, Block - 1);
+        _ring = Enumerable.Range(0, fields).Select(_ => new float[_slots * _outColumns]).ToArray();
+        _out = Enumerable.Range(0, Block).Select(_ => Enumerable.Range(0, fields).Select(_ => new float[_outColumns]).ToArray()).ToArray();
         _along = new float[columns];
-        _cached = new int[_taps];
-        _sources = new int[_taps];
+        _cached = new int[_slots];
+        _sources = new int[_slots];
     }
 
     public int Radius => _radius;
@@ -53,12 +59,14 @@ internal sealed class BandFilter
     public void Run(RowSource source, RowSink sink)
     {
         Array.Fill(_cached, -1);
-        for (int j = 0; j < _rows; j += _step)
+        int block = _step == 1 ? Block : 1;
+        for (int j0 = 0; j0 < _rows; j0 += block * _step)
         {
-            for (int t = 0; t < _taps; t++)
+            int nb = _step == 1 ? Math.Min(Block, _rows - j0) : 1;
+            for (int t = 0; t < nb + _taps - 1; t++)
             {
-                // the window's rows are one contiguous run (reflection included), shorter than the ring, so row mod taps never collides
-                int s = SeparableFilter.EdgeIndex(j + t - _radius, _rows, Edge.Reflect), slot = s % _taps;
+                // the block's rows are one contiguous run (reflection included), shorter than the ring, so row mod slots never collides
+                int s = SeparableFilter.EdgeIndex(j0 + t - _radius, _rows, Edge.Reflect), slot = s % _slots;
                 if (_cached[slot] != s)
                 {
                     source(s, _padded);
@@ -67,8 +75,11 @@ internal sealed class BandFilter
                 }
                 _sources[t] = slot * _outColumns;
             }
-            for (int f = 0; f < _fields; f++) Down(_ring[f], _out[f]);
-            sink(j / _step, _out);
+            for (int f = 0; f < _fields; f++)
+                if (nb == Block) DownBlock(_ring[f], f);
+                else
+                    for (int b = 0; b < nb; b++) Down(_ring[f], _sources.AsSpan(b, _taps), _out[b][f]);
+            for (int b = 0; b < nb; b++) sink((j0 + b) / _step, _out[b]);
         }
     }
 
@@ -120,13 +131,13 @@ internal sealed class BandFilter
 
     /// <summary>target[i] = Σ_t w_t · ring[sources[t] + i]: the window's rows weighted and summed, symmetric taps paired.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    void Down(float[] ring, Span<float> target)
+    void Down(float[] ring, ReadOnlySpan<int> sources, Span<float> target)
     {
         int n = target.Length, r = _radius, i = 0;
         ref float src = ref MemoryMarshal.GetArrayDataReference(ring);
         ref float dst = ref MemoryMarshal.GetReference(target);
         ref float w = ref MemoryMarshal.GetArrayDataReference(_kernel);
-        ref int rows = ref MemoryMarshal.GetArrayDataReference(_sources);
+        ref int rows = ref MemoryMarshal.GetReference(sources);
         if (V.IsHardwareAccelerated)
             for (; i + 8 <= n; i += 8)
             {
@@ -138,9 +149,50 @@ internal sealed class BandFilter
             }
         for (; i < n; i++)
         {
-            float acc = _kernel[r] * ring[_sources[r] + i];
-            for (int k = 1; k <= r; k++) acc += _kernel[r + k] * (ring[_sources[r - k] + i] + ring[_sources[r + k] + i]);
+            float acc = _kernel[r] * ring[sources[r] + i];
+            for (int k = 1; k <= r; k++) acc += _kernel[r + k] * (ring[sources[r - k] + i] + ring[sources[r + k] + i]);
             Unsafe.Add(ref dst, i) = acc;
+        }
+    }
+
+    /// <summary>Four output rows of one field at once: row o is Σ_t blockKernel[t − o + 3] · ring[sources[t] + i] over the taps + 3 input rows.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    void DownBlock(float[] ring, int field)
+    {
+        int n = _outColumns, inputs = _taps + Block - 1, i = 0;
+        ref float src = ref MemoryMarshal.GetArrayDataReference(ring);
+        ref float w = ref MemoryMarshal.GetArrayDataReference(_blockKernel);
+        ref int rows = ref MemoryMarshal.GetArrayDataReference(_sources);
+        ref float d0 = ref MemoryMarshal.GetArrayDataReference(_out[0][field]);
+        ref float d1 = ref MemoryMarshal.GetArrayDataReference(_out[1][field]);
+        ref float d2 = ref MemoryMarshal.GetArrayDataReference(_out[2][field]);
+        ref float d3 = ref MemoryMarshal.GetArrayDataReference(_out[3][field]);
+        if (V.IsHardwareAccelerated)
+            for (; i + 8 <= n; i += 8)
+            {
+                var a0 = Vector256<float>.Zero; var a1 = a0; var a2 = a0; var a3 = a0;
+                for (int t = 0; t < inputs; t++)
+                {
+                    var v = V.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, t) + i));
+                    a0 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t + 3)), a0);
+                    a1 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t + 2)), a1);
+                    a2 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t + 1)), a2);
+                    a3 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t)), a3);
+                }
+                a0.StoreUnsafe(ref d0, (nuint)i);
+                a1.StoreUnsafe(ref d1, (nuint)i);
+                a2.StoreUnsafe(ref d2, (nuint)i);
+                a3.StoreUnsafe(ref d3, (nuint)i);
+            }
+        for (; i < n; i++)
+        {
+            float s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+            for (int t = 0; t < inputs; t++)
+            {
+                float v = ring[_sources[t] + i];
+                s0 += _blockKernel[t + 3] * v; s1 += _blockKernel[t + 2] * v; s2 += _blockKernel[t + 1] * v; s3 += _blockKernel[t] * v;
+            }
+            Unsafe.Add(ref d0, i) = s0; Unsafe.Add(ref d1, i) = s1; Unsafe.Add(ref d2, i) = s2; Unsafe.Add(ref d3, i) = s3;
         }
     }
 }

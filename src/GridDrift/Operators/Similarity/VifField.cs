@@ -1,3 +1,4 @@
+using System.Numerics;
 using System.Numerics.Tensors;
 using System.Runtime.Intrinsics;
 
@@ -39,6 +40,7 @@ internal sealed unsafe class VifField
     // the pair being processed (set by Terms, read by the row sources and sinks)
     float* _a, _b, _num, _den;
     float _shiftX, _shiftY;
+    bool _complete;
 
     public VifField(int rows, int columns, bool periodicX, double rangeLow, double rangeHigh)
     {
@@ -88,10 +90,8 @@ internal sealed unsafe class VifField
     {
         if (x.Length != _rows * _columns || y.Length != x.Length || num.Length != x.Length || den.Length != x.Length)
             throw new ArgumentException($"VIF terms need {_rows} × {_columns} cells in every field");
-        double sx = 0, sy = 0;
-        int count = 0;
-        for (int i = 0; i < x.Length; i++)
-            if (!float.IsNaN(x[i]) && !float.IsNaN(y[i])) { sx += x[i]; sy += y[i]; count++; }
+        var (sx, sy, count) = ValidSums(x, y);
+        _complete = count == x.Length;
         _shiftX = count > 0 ? (float)((sx / count - _low) * _scale) : 0;
         _shiftY = count > 0 ? (float)((sy / count - _low) * _scale) : 0;
         fixed (float* a = x, b = y, pn = num, pd = den)
@@ -109,6 +109,28 @@ internal sealed unsafe class VifField
         }
     }
 
+    /// <summary>Sums of x and of y over the cells valid in both, and their count; float64 over eight-lane float32 blocks.</summary>
+    static (double X, double Y, int Count) ValidSums(ReadOnlySpan<float> x, ReadOnlySpan<float> y)
+    {
+        double sx = 0, sy = 0;
+        int count = 0, i = 0;
+        if (Vector256.IsHardwareAccelerated)
+            for (; i + 8 <= x.Length; i += 8)
+            {
+                var a = Vector256.Create(x.Slice(i, 8));
+                var b = Vector256.Create(y.Slice(i, 8));
+                var valid = Vector256.Equals(a, a) & Vector256.Equals(b, b);
+                var (al, ah) = Vector256.Widen(a & valid);
+                var (bl, bh) = Vector256.Widen(b & valid);
+                sx += Vector256.Sum(al + ah);
+                sy += Vector256.Sum(bl + bh);
+                count += BitOperations.PopCount(valid.ExtractMostSignificantBits());
+            }
+        for (; i < x.Length; i++)
+            if (!float.IsNaN(x[i]) && !float.IsNaN(y[i])) { sx += x[i]; sy += y[i]; count++; }
+        return (sx, sy, count);
+    }
+
     /// <summary>Row <paramref name="row"/> of level <paramref name="level"/>'s two images into padded[0] and padded[1].</summary>
     void LevelRow(int level, int row, float[] px, float[] py, int radius)
     {
@@ -118,7 +140,21 @@ internal sealed unsafe class VifField
             float scale = (float)_scale, low = (float)_low;
             var a = new ReadOnlySpan<float>(_a + (long)row * c, c);
             var b = new ReadOnlySpan<float>(_b + (long)row * c, c);
-            for (int i = 0; i < c; i++)
+            int i = 0;
+            if (Vector256.IsHardwareAccelerated)
+            {
+                var vscale = Vector256.Create(scale); var vlow = Vector256.Create(low);
+                var vsx = Vector256.Create(_shiftX); var vsy = Vector256.Create(_shiftY);
+                for (; i + 8 <= c; i += 8)
+                {
+                    var va = Vector256.Create(a.Slice(i, 8));
+                    var vb = Vector256.Create(b.Slice(i, 8));
+                    var valid = Vector256.Equals(va, va) & Vector256.Equals(vb, vb);
+                    (((va - vlow) * vscale - vsx) & valid).CopyTo(px.AsSpan(radius + i, 8));
+                    (((vb - vlow) * vscale - vsy) & valid).CopyTo(py.AsSpan(radius + i, 8));
+                }
+            }
+            for (; i < c; i++)
             {
                 bool valid = !float.IsNaN(a[i]) && !float.IsNaN(b[i]);
                 px[radius + i] = valid ? (a[i] - low) * scale - _shiftX : 0;
@@ -164,8 +200,9 @@ internal sealed unsafe class VifField
             var b = new ReadOnlySpan<float>(_b + at, c);
             num.CopyTo(new Span<float>(_num + at, c));
             den.CopyTo(new Span<float>(_den + at, c));
-            for (int i = 0; i < c; i++)
-                if (float.IsNaN(a[i]) || float.IsNaN(b[i])) _num[at + i] = _den[at + i] = float.NaN;
+            if (!_complete)
+                for (int i = 0; i < c; i++)
+                    if (float.IsNaN(a[i]) || float.IsNaN(b[i])) _num[at + i] = _den[at + i] = float.NaN;
             return;
         }
         long stride = 1 << level, first = row * stride * _columns;
