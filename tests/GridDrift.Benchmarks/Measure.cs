@@ -9,7 +9,7 @@ internal static class Measure
     {
         foreach (var line in File.ReadLines("/proc/self/status"))
             if (line.StartsWith("VmHWM:", StringComparison.Ordinal))
-                return double.Parse(line.Split(' ', StringSplitOptions.RemoveEmptyEntries)[1]) / 1024;
+                return double.Parse(line.Split([' ', '\t'], StringSplitOptions.RemoveEmptyEntries)[1]) / 1024;
         return double.NaN;
     }
 

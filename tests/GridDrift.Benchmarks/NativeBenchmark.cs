@@ -22,6 +22,7 @@ internal static class NativeBenchmark
 
     public static int Run(string[] args)
     {
+        if (args.FirstOrDefault() == "project") return DecadeProjection.Run(args[1..]);
         int frames = args.Length > 0 && !args[0].StartsWith('-') ? int.Parse(args[0], CultureInfo.InvariantCulture) : 8;
         string dir = args.SkipWhile(a => a != "--dir").Skip(1).FirstOrDefault() ?? Path.Combine(Path.GetTempPath(), "griddrift-native");
         Directory.CreateDirectory(dir);
@@ -44,10 +45,17 @@ internal static class NativeBenchmark
 
     internal static (double Seconds, double PeakMiB) Child(string command, params string[] files)
     {
+        var r = ChildRun(command, files);
+        return (r.Seconds, r.PeakMiB);
+    }
+
+    /// <summary>One command in its own process: wall time, peak resident memory, and the time after its last frame (writing the products).</summary>
+    internal static (double Seconds, double PeakMiB, double Closing) ChildRun(string command, params string[] arguments)
+    {
         string self = Environment.ProcessPath!;
         string selfArgs = self.EndsWith("dotnet") ? $"\"{typeof(NativeBenchmark).Assembly.Location}\" " : "";
-        var parts = Measure.Run(self, $"{selfArgs}native-one {command} {string.Join(' ', files.Select(f => $"\"{f}\""))}").Split(' ');
-        return (double.Parse(parts[0], CultureInfo.InvariantCulture), double.Parse(parts[1], CultureInfo.InvariantCulture));
+        var parts = Measure.Run(self, $"{selfArgs}native-one {command} {string.Join(' ', arguments.Select(f => $"\"{f}\""))}").Split(' ');
+        return (double.Parse(parts[0], CultureInfo.InvariantCulture), double.Parse(parts[1], CultureInfo.InvariantCulture), double.Parse(parts[2], CultureInfo.InvariantCulture));
     }
 
     public static int RunOne(string[] args)
@@ -56,19 +64,27 @@ internal static class NativeBenchmark
         var files = args[1..];
         string output = Path.Combine(Path.GetTempPath(), $"griddrift-native-out-{Environment.ProcessId}.nc");
         var clock = System.Diagnostics.Stopwatch.StartNew();
+        double lastFrame = double.NaN;
+        var progress = new Progress(() => lastFrame = clock.Elapsed.TotalSeconds);
         switch (command)
         {
             case "ssim-vif":
-                SimilarityStep.Run(new SimilarityOptions(files, "wv", Regions, [SimilarityMetric.Ssim, SimilarityMetric.Vif], output, Range: "180:320"));
+                SimilarityStep.Run(new SimilarityOptions(files, "wv", Regions, [SimilarityMetric.Ssim, SimilarityMetric.Vif], output, Range: "180:320"), progress);
                 break;
             case "vif-global":
-                SimilarityStep.Run(new SimilarityOptions(files, "wv", ["global"], [SimilarityMetric.Vif], output, Range: "180:320"));
+                SimilarityStep.Run(new SimilarityOptions(files, "wv", ["global"], [SimilarityMetric.Vif], output, Range: "180:320"), progress);
                 break;
             case "stats":
-                StatsStep.Run(new StatsOptions(files, "wv", Regions, RegionStatistics.All, output));
+                StatsStep.Run(new StatsOptions(files, "wv", Regions, RegionStatistics.All, output), progress);
                 break;
             case "climatology-month":
-                ClimatologyStep.Run(new ClimatologyOptions(files, "wv", ClimatologyKinds.Parse("month")!.Value, output));
+                ClimatologyStep.Run(new ClimatologyOptions(files, "wv", ClimatologyKinds.Parse("month")!.Value, output), progress);
+                break;
+            case "shard":
+                GridDrift.Pipeline.RecipeRunner.Run(files[0], shard: GridDrift.Pipeline.ShardSpec.Parse(files[1]));
+                break;
+            case "gather":
+                GridDrift.Pipeline.ShardGather.Run(files[1..], files[0]);
                 break;
             case "read":
                 using (var source = GridDrift.Frames.FrameSource.Open(files, "wv"))
@@ -80,9 +96,16 @@ internal static class NativeBenchmark
             default:
                 throw new ArgumentException($"unknown command {command}");
         }
-        Console.WriteLine(string.Create(CultureInfo.InvariantCulture, $"{clock.Elapsed.TotalSeconds:0.000} {Measure.PeakResidentMiB():0}"));
+        double total = clock.Elapsed.TotalSeconds;
+        Console.WriteLine(string.Create(CultureInfo.InvariantCulture, $"{total:0.000} {Measure.PeakResidentMiB():0} {(double.IsNaN(lastFrame) ? 0 : total - lastFrame):0.000}"));
         if (File.Exists(output)) File.Delete(output);
         return 0;
+    }
+
+    /// <summary>Reports synchronously (IProgress's default posts to the thread pool, which would stamp late).</summary>
+    sealed class Progress(Action reported) : IProgress<(int Done, int Total)>
+    {
+        public void Report((int Done, int Total) value) => reported();
     }
 
     /// <summary>An invented hourly water-vapour brightness temperature: a latitude profile, a travelling wave, fine structure and noise.</summary>

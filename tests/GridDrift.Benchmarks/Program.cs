@@ -9,6 +9,8 @@ using GridDrift.Benchmarks;
 //   similarity [PAIRS]                 SSIM and VIF of 721 × 1440 pairs vs scikit-image and numpy/scipy; memory over 100 and 10,000 frames
 //   calibration [SERIES] [--hourly N]   false alarms and power of every change and trend verdict on simulated persistent seasonal series
 //   native [FRAMES] [--dir DIR]       3712 × 3712 frames over 163 regions: similarity ssim,vif, vif, stats: time per pair and peak memory
+//   native project [FRAMES] [--dir D] stats + similarity ssim,vif + month climatology on FRAMES deflate NetCDF-4 3712² frames: time split, 90,000-frame projection
+//   limits                            each kernel's time per cell against this machine's measured vector arithmetic and memory rates
 //   images [FILES] [--dir DIR]         FILES one-image 500 × 500 int16 files vs the same frames stacked in one file, through stats
 return args.FirstOrDefault() switch
 {
@@ -25,6 +27,7 @@ return args.FirstOrDefault() switch
     "images" => ImagesBenchmark.Run(args[1..]),
     "native" => NativeBenchmark.Run(args[1..]),
     "native-one" => NativeBenchmark.RunOne(args[1..]),
+    "limits" => KernelLimits.Run(args[1..]),
     "calibration" => CalibrationBenchmark.Run(args[1..]),
     _ => Usage(),
 };

@@ -69,14 +69,16 @@ internal sealed class SimilarityOperator : IPairOperator<SimilarityOperator.Work
 
     public Worker NewWorker()
     {
+        // SSIM's map is reduced before VIF's terms are computed: VIF's numerator map reuses its memory
+        var map = _metrics.Contains(SimilarityMetric.Ssim) || _wantsVif ? new float[_grid.CellCount] : [];
         var w = new Worker
         {
             Ssim = new Ssim(_grid.Rows, _grid.Columns, _periodic, _range.Low, _range.High),
             Vif = _wantsVif ? new VifField(_grid.Rows, _grid.Columns, _periodic, _range.Low, _range.High) : null,
             MapReducer = new RegionReducer(_regions, [RegionStatistic.Mean, RegionStatistic.Valid]),
-            Map = _metrics.Contains(SimilarityMetric.Ssim) ? new float[_grid.CellCount] : [],
+            Map = _metrics.Contains(SimilarityMetric.Ssim) ? map : [],
             MapStats = new double[_regions.Count * 2],
-            VifNum = _wantsVif ? new float[_grid.CellCount] : [],
+            VifNum = _wantsVif ? map : [],
             VifDen = _wantsVif ? new float[_grid.CellCount] : [],
             VifNumStats = new double[_regions.Count * 2],
             VifDenStats = new double[_regions.Count * 2],
