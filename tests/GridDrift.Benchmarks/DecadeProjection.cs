@@ -12,7 +12,8 @@ namespace GridDrift.Benchmarks;
 /// reading), writing (after the last frame) and the rest (kernels, with per-frame series rows
 /// and setup). Then it runs the chain as a recipe in 4 shards and gathers them, and takes each
 /// shard's fixed cost (its time less its frames at the chain's rate) and the gather's cost per
-/// frame. Projects 90,000 frames (a decade of hourly full-disk images) on this machine and on
+/// shard (it merges every shard's partial climatology state, whose size does not depend on the
+/// shard's length). Projects 90,000 frames (a decade of hourly full-disk images) on this machine and on
 /// a 16-node Slurm array of such machines.
 /// </summary>
 internal static class DecadeProjection
@@ -89,11 +90,13 @@ internal static class DecadeProjection
         }
         double fixedPerShard = Math.Max(0, (shardSeconds - perFrame * frames) / TrialShards);
         double gather = NativeBenchmark.ChildRun("gather", [Path.Combine(work, "gathered"), .. folders]).Seconds;
-        double nodeHours = (fixedPerShard + perFrame * DecadeFrames / Nodes + writing) / 3600, gatherHours = gather / frames * DecadeFrames / 3600;
-        Console.WriteLine($"  {TrialShards} shards: {shardSeconds:0.0} s in all, a fixed {fixedPerShard:0.0} s per shard beyond its frames; gather {gather:0.0} s ({gather / frames * 1e3:0} ms per frame of record)");
+        // the gather merges each shard's partial climatology state (slots × cells, the same size whatever the shard's length): it grows with the shards
+        double gatherPerShard = gather / TrialShards;
+        double nodeHours = (fixedPerShard + perFrame * DecadeFrames / Nodes + writing) / 3600, gatherHours = gatherPerShard * Nodes / 3600;
+        Console.WriteLine($"  {TrialShards} shards: {shardSeconds:0.0} s in all, a fixed {fixedPerShard:0.0} s per shard beyond its frames; gather {gather:0.0} s ({gatherPerShard:0.0} s per shard)");
         Console.WriteLine($"  projected for {DecadeFrames:N0} frames on a {Nodes}-node Slurm array of such machines: {nodeHours + gatherHours:0.00} h " +
-            $"({nodeHours:0.00} h per shard + {gatherHours:0.00} h gather, gather taken as linear in frames), if the shared file system gives each node " +
-            $"{4.0 * NativeBenchmark.Side * NativeBenchmark.Side * 3 / 2 / perFrame / 1e6:0} MB/s of compressed frames");
+            $"({nodeHours:0.00} h per shard, in parallel, + {gatherHours * 60:0} min gather), if the shared file system gives each node " +
+            $"{new FileInfo(deflate).Length / (double)frames * 3 / perFrame / 1e6:0} MB/s of compressed frames");
         return 0;
     }
 }

@@ -66,7 +66,7 @@ internal sealed class BandFilter
             for (int t = 0; t < nb + _taps - 1; t++)
             {
                 // the block's rows are one contiguous run (reflection included), shorter than the ring, so row mod slots never collides
-                int s = SeparableFilter.EdgeIndex(j0 + t - _radius, _rows, Edge.Reflect), slot = s % _slots;
+                int s = Edges.Index(j0 + t - _radius, _rows, Edge.Reflect), slot = s % _slots;
                 if (_cached[slot] != s)
                 {
                     source(s, _padded);
@@ -88,8 +88,8 @@ internal sealed class BandFilter
     {
         for (int p = 0; p < radius; p++)
         {
-            padded[p] = padded[radius + SeparableFilter.EdgeIndex(p - radius, columns, edge)];
-            padded[radius + columns + p] = padded[radius + SeparableFilter.EdgeIndex(columns + p, columns, edge)];
+            padded[p] = padded[radius + Edges.Index(p - radius, columns, edge)];
+            padded[radius + columns + p] = padded[radius + Edges.Index(columns + p, columns, edge)];
         }
     }
 

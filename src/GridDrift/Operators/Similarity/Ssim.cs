@@ -32,7 +32,6 @@ internal sealed class Ssim
     readonly Edge _xEdge;
     readonly double _c1, _c2;
     double _shift;
-    readonly SeparableFilter _filter = new(GaussianKernel.Truncated(Sigma));
     readonly float[][] _ring;       // per field: taps × columns horizontally filtered rows
     readonly float[][] _padded;     // per field: one padded source row
     readonly float[][] _out;        // per field: the vertically filtered row
@@ -52,7 +51,7 @@ internal sealed class Ssim
         double l = rangeHigh - rangeLow;
         _c1 = (K1 * l) * (K1 * l);
         _c2 = (K2 * l) * (K2 * l);
-        _radius = _filter.Radius;
+        _radius = GaussianKernel.Truncated(Sigma).Length / 2;
         _taps = 2 * _radius + 1;
         if (_taps != SsimKernels.Taps) throw new InternalFaultException($"SSIM's window has {_taps} taps; its kernels are written for {SsimKernels.Taps}");
         _slots = Block + 2 * _radius;
@@ -86,7 +85,7 @@ internal sealed class Ssim
             // the input rows of the block form one contiguous run of source rows (reflection included), so slot = row mod slots never collides
             for (int t = 0; t < inputs; t++)
             {
-                int s = SeparableFilter.EdgeIndex(j0 + t - _radius, _rows, Edge.Reflect);
+                int s = Edges.Index(j0 + t - _radius, _rows, Edge.Reflect);
                 int slot = s % _slots;
                 if (_cached[slot] != s)
                 {
@@ -171,7 +170,7 @@ internal sealed class Ssim
             for (; i < _columns; i++) Put(xr[i], yr[i], r + i, shift);
             for (p = 0; p < r; p++)
             {
-                int left = SeparableFilter.EdgeIndex(p - r, _columns, _xEdge), right = SeparableFilter.EdgeIndex(_columns + p, _columns, _xEdge);
+                int left = Edges.Index(p - r, _columns, _xEdge), right = Edges.Index(_columns + p, _columns, _xEdge);
                 Put(xr[left], yr[left], p, shift);
                 Put(xr[right], yr[right], _columns + r + p, shift);
             }
@@ -179,7 +178,7 @@ internal sealed class Ssim
         else
             for (p = 0; p < _columns + 2 * r; p++)
             {
-                int i = p < r || p >= _columns + r ? SeparableFilter.EdgeIndex(p - r, _columns, _xEdge) : p - r;
+                int i = p < r || p >= _columns + r ? Edges.Index(p - r, _columns, _xEdge) : p - r;
                 Put(xr[i], yr[i], p, shift);
             }
         for (int f = firstField; f < Fields; f++) SsimKernels.Along(_kernel, _padded[f], _ring[f].AsSpan(slot * _columns, _columns));

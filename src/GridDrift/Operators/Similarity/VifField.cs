@@ -6,8 +6,8 @@ namespace GridDrift.Operators.Similarity;
 
 /// <summary>
 /// VIF's information terms cell by cell over a whole frame, in one pass per pair, so that every
-/// region's VIF is a ratio of area-weighted sums of the same two maps. The algorithm is
-/// <see cref="Vif"/>'s (Sheikh &amp; Bovik 2006, pixel-domain multi-scale: four scales, windows of
+/// region's VIF is a ratio of area-weighted sums of the same two maps. The algorithm is the
+/// published one (Sheikh &amp; Bovik 2006, pixel-domain multi-scale: four scales, windows of
 /// N = 2^(5−s) + 1 taps with σ = N/5, decimation by 2 after filtering from the second scale on,
 /// σ²_N = 2, the released code's 1e−10 guards), with two changes that make it a field on the
 /// sphere instead of a planar image: filtering is 'same'-size with the frame's own edges

@@ -14,20 +14,10 @@ public class VifFieldTests
 {
     const double Low = 180, High = 320;
 
-    static (float[] A, float[] B) Fields(int rows, int columns, int seed, double noise)
-    {
-        var rng = new Random(seed);
-        var a = new float[rows * columns];
-        var b = new float[rows * columns];
-        for (int j = 0; j < rows; j++)
-            for (int i = 0; i < columns; i++)
-            {
-                double smooth = 250 + 15 * Math.Sin(2 * Math.PI * i / columns * 3) * Math.Cos(j / 9.0) + 5 * Math.Sin(2 * Math.PI * i / columns * 8 + j / 3.0);
-                a[j * columns + i] = (float)(smooth + 4 * (rng.NextDouble() - 0.5));
-                b[j * columns + i] = (float)(smooth + 3 * Math.Sin(j / 4.0 + 1) + noise * (rng.NextDouble() - 0.5));
-            }
-        return (a, b);
-    }
+    static (float[] A, float[] B) Fields(int rows, int columns, int seed, double noise) =>
+        FieldPairs.Make(rows, columns, seed,
+            (j, i) => 250 + 15 * Math.Sin(2 * Math.PI * i / columns * 3) * Math.Cos(j / 9.0) + 5 * Math.Sin(2 * Math.PI * i / columns * 8 + j / 3.0),
+            (j, _) => 3 * Math.Sin(j / 4.0 + 1), 4, noise);
 
     static (float[] Num, float[] Den) Maps(float[] a, float[] b, int rows, int columns, bool periodic)
     {
@@ -46,13 +36,6 @@ public class VifFieldTests
         return n / d;
     }
 
-    static string Bin(TempFolder dir, string name, IEnumerable<double> values)
-    {
-        string path = dir.File(name);
-        File.WriteAllBytes(path, values.SelectMany(BitConverter.GetBytes).ToArray());
-        return path;
-    }
-
     static double[] ReadDoubles(string path) => File.ReadAllBytes(path).Chunk(8).Select(c => BitConverter.ToDouble(c)).ToArray();
 
     [InteropTheory(Needs.PythonScipy)]
@@ -65,7 +48,7 @@ public class VifFieldTests
         b[20 * columns + 30] = float.NaN;
         using var dir = new TempFolder();
         string numPath = dir.File("num.bin"), denPath = dir.File("den.bin");
-        ExternalTools.RunPython("vif_field_reference.py", Bin(dir, "a.bin", a.Select(v => (double)v)), Bin(dir, "b.bin", b.Select(v => (double)v)),
+        ExternalTools.RunPython("vif_field_reference.py", FieldPairs.Bin(dir, "a.bin", a.Select(v => (double)v)), FieldPairs.Bin(dir, "b.bin", b.Select(v => (double)v)),
             rows.ToString(), columns.ToString(), Low.ToString(CultureInfo.InvariantCulture), High.ToString(CultureInfo.InvariantCulture), periodic ? "1" : "0", numPath, denPath);
         var expectedNum = ReadDoubles(numPath);
         var expectedDen = ReadDoubles(denPath);
@@ -109,7 +92,7 @@ public class VifFieldTests
                     boxA.Add(255 * (a[j * columns + i] - Low) / (High - Low));
                     boxB.Add(255 * (b[j * columns + i] - Low) / (High - Low));
                 }
-            double published = double.Parse(ExternalTools.RunPython("vif_reference.py", Bin(dir, "a.bin", boxA), Bin(dir, "b.bin", boxB), nr.ToString(), nc.ToString()).Trim(), CultureInfo.InvariantCulture);
+            double published = double.Parse(ExternalTools.RunPython("vif_reference.py", FieldPairs.Bin(dir, "a.bin", boxA), FieldPairs.Bin(dir, "b.bin", boxB), nr.ToString(), nc.ToString()).Trim(), CultureInfo.InvariantCulture);
             double region = Ratio(num, den, columns, r0, nr, c0, nc);
             double tolerance = Math.Min(nr, nc) >= 100 ? 0.02 : 0.06;
             Assert.True(Math.Abs(region - published) <= tolerance, $"box at row {r0}, column {c0} ({nr} × {nc}): region form {region}, published {published}");

@@ -1,6 +1,7 @@
 using CsCheck;
 using GridDrift.Grids;
 using GridDrift.Regions;
+using GridDrift.Tests.Support;
 using GridDrift.Operators.Statistics;
 
 namespace GridDrift.Tests.Operators.Statistics;
@@ -18,12 +19,8 @@ public class BoxQuantilesTests
     public void Box_path_equals_the_per_region_pass_for_all_eight_statistics() =>
         Gen.Select(Gen.Int[0, 3], Gen.Double[0, 0.4], Gen.Int[0, 1_000_000], Gen.Bool).Sample((layout, missing, seed, ties) =>
         {
-            double d = layout % 2 == 0 ? 3 : 2;
-            int rows = (int)(180 / d), columns = (int)(360 / d);
-            var lat = Enumerable.Range(0, rows).Select(j => -90 + d / 2 + j * d).ToArray();
-            if (layout >= 2) Array.Reverse(lat);
-            var lon = Enumerable.Range(0, columns).Select(i => (layout % 2 == 0 ? 0 : -180) + d / 2 + i * d).ToArray();
-            var grid = RectilinearGrid.Build(lat, lon);
+            var grid = GlobalGrids.Of(layout);
+            int rows = grid.Rows, columns = grid.Columns;
             var shapes = RegionSpecs.ParseInput(["global", "bands:30", "tiles:45x90", "box:pacific=-20,25,150,-120", "box:patch=10.5,33.3,-40.2,12.7"]);
             var regions = RegionSet.Build(grid, shapes);
             Assert.NotNull(regions.Separable);
