@@ -128,17 +128,8 @@ internal static class LongRecordBenchmark
     static void WriteFile(string path, int firstFrame, int frames)
     {
         using var w = ClassicWriter.Create(path);
-        var time = w.AddDimension("time", 0, unlimited: true);
-        var lat = w.AddDimension("lat", Rows);
-        var lon = w.AddDimension("lon", Columns);
-        w.AddAttribute(NcAttribute.Text("title", "invented hourly water-vapour-channel brightness temperature for the long-record benchmark"));
-        var vt = w.AddVariable("time", NcType.Double, [time], [NcAttribute.Text("units", "hours since 2031-01-01"), NcAttribute.Text("calendar", "standard"), NcAttribute.Text("standard_name", "time")]);
-        var vlat = w.AddVariable("lat", NcType.Float, [lat], [NcAttribute.Text("units", "degrees_north"), NcAttribute.Text("standard_name", "latitude")]);
-        var vlon = w.AddVariable("lon", NcType.Float, [lon], [NcAttribute.Text("units", "degrees_east"), NcAttribute.Text("standard_name", "longitude")]);
-        var v = w.AddVariable("tb", NcType.Float, [time, lat, lon], [NcAttribute.Text("units", "K"), NcAttribute.Text("standard_name", "toa_brightness_temperature")]);
-        w.EndDefinitions();
-        w.Write<float>(vlat, Enumerable.Range(0, Rows).Select(j => 90f - 0.5f * j).ToArray());
-        w.Write<float>(vlon, Enumerable.Range(0, Columns).Select(i => 0.5f * i).ToArray());
+        var (vt, v) = InventedRecords.Begin(w, "invented hourly water-vapour-channel brightness temperature for the long-record benchmark", "tb",
+            Enumerable.Range(0, Rows).Select(j => 90.0 - 0.5 * j).ToArray(), Enumerable.Range(0, Columns).Select(i => 0.5 * i).ToArray());
         var profile = Enumerable.Range(0, Rows).Select(j => 235 + 25 * Math.Cos((90 - 0.5 * j) * Math.PI / 180)).ToArray();
         var wave = Enumerable.Range(0, Columns).Select(i => Math.Sin(4 * Math.PI * i / Columns)).ToArray();
         var frame = new float[Rows * Columns];

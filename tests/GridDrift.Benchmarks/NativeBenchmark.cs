@@ -114,17 +114,8 @@ internal static class NativeBenchmark
         string partial = path + ".part";
         using (var w = ClassicWriter.Create(partial, ClassicVariant.Cdf5))
         {
-            var time = w.AddDimension("time", 0, unlimited: true);
-            var lat = w.AddDimension("lat", Side);
-            var lon = w.AddDimension("lon", Side);
-            w.AddAttribute(NcAttribute.Text("title", "invented hourly water-vapour-channel brightness temperature at native resolution, for the benchmark"));
-            var vt = w.AddVariable("time", NcType.Double, [time], [NcAttribute.Text("units", "hours since 2031-01-01"), NcAttribute.Text("calendar", "standard"), NcAttribute.Text("standard_name", "time")]);
-            var vlat = w.AddVariable("lat", NcType.Double, [lat], [NcAttribute.Text("units", "degrees_north"), NcAttribute.Text("standard_name", "latitude")]);
-            var vlon = w.AddVariable("lon", NcType.Double, [lon], [NcAttribute.Text("units", "degrees_east"), NcAttribute.Text("standard_name", "longitude")]);
-            var v = w.AddVariable("wv", NcType.Float, [time, lat, lon], [NcAttribute.Text("units", "K"), NcAttribute.Text("standard_name", "toa_brightness_temperature")]);
-            w.EndDefinitions();
-            w.Write<double>(vlat, Enumerable.Range(0, Side).Select(j => 90 - 180.0 * (j + 0.5) / Side).ToArray());
-            w.Write<double>(vlon, Enumerable.Range(0, Side).Select(i => 360.0 * (i + 0.5) / Side).ToArray());
+            var (vt, v) = InventedRecords.Begin(w, "invented hourly water-vapour-channel brightness temperature at native resolution, for the benchmark", "wv",
+                Enumerable.Range(0, Side).Select(j => 90 - 180.0 * (j + 0.5) / Side).ToArray(), Enumerable.Range(0, Side).Select(i => 360.0 * (i + 0.5) / Side).ToArray());
             var frame = new float[Side * Side];
             var profile = Enumerable.Range(0, Side).Select(j => 235 + 25 * Math.Cos((90 - 180.0 * (j + 0.5) / Side) * Math.PI / 180)).ToArray();
             for (int t = 0; t < frames; t++)
