@@ -18,11 +18,12 @@ namespace GridDrift.Operators.Statistics;
 internal sealed class BoxQuantiles
 {
     const int Bins = 4096;
-    const ushort Missing = ushort.MaxValue;
+    // missing cells fall in a bin of their own past the last, which no box reads: the histogram loop needs no test
+    const ushort Missing = Bins;
     readonly SeparablePlan _plan;
     readonly ushort[] _bin;
     // two histograms, filled by alternate cells: runs of cells in one bin (smooth fields) then do not wait on each other's stores
-    readonly double[] _even = new double[Bins], _odd = new double[Bins], _binWeight = new double[Bins];
+    readonly double[] _even = new double[Bins + 1], _odd = new double[Bins + 1], _binWeight = new double[Bins];
     float _lo;
     double _scale;
     float[][] _pickedValues = [];
@@ -123,11 +124,10 @@ internal sealed class BoxQuantiles
             // a width of 0 (a box across the grid's seam) adds nothing to any bin
             for (; i + 2 <= count; i += 2)
             {
-                int k0 = Unsafe.Add(ref row, i), k1 = Unsafe.Add(ref row, i + 1);
-                if (k0 != Missing) Unsafe.Add(ref even, k0) += f * Unsafe.Add(ref width, i);
-                if (k1 != Missing) Unsafe.Add(ref odd, k1) += f * Unsafe.Add(ref width, i + 1);
+                Unsafe.Add(ref even, Unsafe.Add(ref row, i)) += f * Unsafe.Add(ref width, i);
+                Unsafe.Add(ref odd, Unsafe.Add(ref row, i + 1)) += f * Unsafe.Add(ref width, i + 1);
             }
-            if (i < count && Unsafe.Add(ref row, i) != Missing) Unsafe.Add(ref even, Unsafe.Add(ref row, i)) += f * Unsafe.Add(ref width, i);
+            if (i < count) Unsafe.Add(ref even, Unsafe.Add(ref row, i)) += f * Unsafe.Add(ref width, i);
         }
         var weight = _binWeight.AsSpan(lowBin, bins);
         double total = 0;
