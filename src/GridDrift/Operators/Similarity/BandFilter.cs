@@ -1,7 +1,6 @@
 using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
-using V = System.Runtime.Intrinsics.Vector256;
 
 namespace GridDrift.Operators.Similarity;
 
@@ -122,123 +121,80 @@ internal sealed class BandFilter
         for (; i < target.Length; i++) target[i] = source[2 * i];
     }
 
-    /// <summary>target[i] = Σ_k w_k · padded[i + k]; pairs of symmetric taps share one multiply.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    /// <summary>target[i] = Σ_k w_k · padded[i + k]; pairs of symmetric taps share one multiply. Sixteen lanes where the machine has them (VIF's maps 31 % faster here than with eight), then eight.</summary>
     void Along(ReadOnlySpan<float> padded, Span<float> target)
     {
-        int n = target.Length, r = _radius, i = 0;
-        ref float src = ref MemoryMarshal.GetReference(padded);
-        ref float dst = ref MemoryMarshal.GetReference(target);
-        ref float w = ref MemoryMarshal.GetArrayDataReference(_kernel);
-        // 16 lanes where the machine has them (measured here: VIF's maps 31 % faster than with 8), then 8
-        if (Vector512.IsHardwareAccelerated)
-            for (; i + 16 <= n; i += 16)
-            {
-                ref float at = ref Unsafe.Add(ref src, i + r);
-                var acc = Vector512.LoadUnsafe(ref at) * Vector512.Create(Unsafe.Add(ref w, r));
-                for (int k = 1; k <= r; k++)
-                    acc = Vector512.FusedMultiplyAdd(Vector512.LoadUnsafe(ref Unsafe.Subtract(ref at, k)) + Vector512.LoadUnsafe(ref Unsafe.Add(ref at, k)), Vector512.Create(Unsafe.Add(ref w, r + k)), acc);
-                acc.StoreUnsafe(ref dst, (nuint)i);
-            }
-        if (V.IsHardwareAccelerated)
-            for (; i + 8 <= n; i += 8)
-            {
-                ref float at = ref Unsafe.Add(ref src, i + r);
-                var acc = V.LoadUnsafe(ref at) * V.Create(Unsafe.Add(ref w, r));
-                for (int k = 1; k <= r; k++)
-                    acc = V.FusedMultiplyAdd(V.LoadUnsafe(ref Unsafe.Subtract(ref at, k)) + V.LoadUnsafe(ref Unsafe.Add(ref at, k)), V.Create(Unsafe.Add(ref w, r + k)), acc);
-                acc.StoreUnsafe(ref dst, (nuint)i);
-            }
-        for (; i < n; i++)
+        int i = 0;
+        if (Lanes16.Available) i = Along<Lanes16, Vector512<float>>(padded, target, i);
+        if (Lanes8.Available) i = Along<Lanes8, Vector256<float>>(padded, target, i);
+        int r = _radius;
+        for (; i < target.Length; i++)
         {
-            float acc = _kernel[r] * Unsafe.Add(ref src, i + r);
-            for (int k = 1; k <= r; k++) acc += _kernel[r + k] * (Unsafe.Add(ref src, i + r - k) + Unsafe.Add(ref src, i + r + k));
-            Unsafe.Add(ref dst, i) = acc;
+            float acc = _kernel[r] * padded[i + r];
+            for (int k = 1; k <= r; k++) acc += _kernel[r + k] * (padded[i + r - k] + padded[i + r + k]);
+            target[i] = acc;
         }
     }
 
-    /// <summary>target[i] = Σ_t w_t · ring[sources[t] + i]: the window's rows weighted and summed, symmetric taps paired.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    int Along<L, TV>(ReadOnlySpan<float> padded, Span<float> target, int i) where L : IFloatLanes<TV>
+    {
+        int n = target.Length, r = _radius;
+        ref float src = ref MemoryMarshal.GetReference(padded);
+        ref float dst = ref MemoryMarshal.GetReference(target);
+        ref float w = ref MemoryMarshal.GetArrayDataReference(_kernel);
+        for (; i + L.Count <= n; i += L.Count)
+        {
+            ref float at = ref Unsafe.Add(ref src, i + r);
+            var acc = L.Multiply(L.Load(ref at, 0), L.Splat(Unsafe.Add(ref w, r)));
+            for (int k = 1; k <= r; k++)
+                acc = L.MultiplyAdd(L.Add(L.Load(ref at, -k), L.Load(ref at, k)), L.Splat(Unsafe.Add(ref w, r + k)), acc);
+            L.Store(acc, ref dst, i);
+        }
+        return i;
+    }
+
+    /// <summary>target[i] = Σ_t w_t · ring[sources[t] + i]: the window's rows weighted and summed, symmetric taps paired.</summary>
     void Down(float[] ring, ReadOnlySpan<int> sources, Span<float> target)
     {
-        int n = target.Length, r = _radius, i = 0;
+        int i = 0;
+        if (Lanes16.Available) i = Down<Lanes16, Vector512<float>>(ring, sources, target, i);
+        if (Lanes8.Available) i = Down<Lanes8, Vector256<float>>(ring, sources, target, i);
+        int r = _radius;
+        for (; i < target.Length; i++)
+        {
+            float acc = _kernel[r] * ring[sources[r] + i];
+            for (int k = 1; k <= r; k++) acc += _kernel[r + k] * (ring[sources[r - k] + i] + ring[sources[r + k] + i]);
+            target[i] = acc;
+        }
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    int Down<L, TV>(float[] ring, ReadOnlySpan<int> sources, Span<float> target, int i) where L : IFloatLanes<TV>
+    {
+        int n = target.Length, r = _radius;
         ref float src = ref MemoryMarshal.GetArrayDataReference(ring);
         ref float dst = ref MemoryMarshal.GetReference(target);
         ref float w = ref MemoryMarshal.GetArrayDataReference(_kernel);
         ref int rows = ref MemoryMarshal.GetReference(sources);
-        if (Vector512.IsHardwareAccelerated)
-            for (; i + 16 <= n; i += 16)
-            {
-                var acc = Vector512.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, r) + i)) * Vector512.Create(Unsafe.Add(ref w, r));
-                for (int k = 1; k <= r; k++)
-                    acc = Vector512.FusedMultiplyAdd(Vector512.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, r - k) + i)) + Vector512.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, r + k) + i)),
-                        Vector512.Create(Unsafe.Add(ref w, r + k)), acc);
-                acc.StoreUnsafe(ref dst, (nuint)i);
-            }
-        if (V.IsHardwareAccelerated)
-            for (; i + 8 <= n; i += 8)
-            {
-                var acc = V.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, r) + i)) * V.Create(Unsafe.Add(ref w, r));
-                for (int k = 1; k <= r; k++)
-                    acc = V.FusedMultiplyAdd(V.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, r - k) + i)) + V.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, r + k) + i)),
-                        V.Create(Unsafe.Add(ref w, r + k)), acc);
-                acc.StoreUnsafe(ref dst, (nuint)i);
-            }
-        for (; i < n; i++)
+        for (; i + L.Count <= n; i += L.Count)
         {
-            float acc = _kernel[r] * ring[sources[r] + i];
-            for (int k = 1; k <= r; k++) acc += _kernel[r + k] * (ring[sources[r - k] + i] + ring[sources[r + k] + i]);
-            Unsafe.Add(ref dst, i) = acc;
+            var acc = L.Multiply(L.Load(ref src, Unsafe.Add(ref rows, r) + i), L.Splat(Unsafe.Add(ref w, r)));
+            for (int k = 1; k <= r; k++)
+                acc = L.MultiplyAdd(L.Add(L.Load(ref src, Unsafe.Add(ref rows, r - k) + i), L.Load(ref src, Unsafe.Add(ref rows, r + k) + i)), L.Splat(Unsafe.Add(ref w, r + k)), acc);
+            L.Store(acc, ref dst, i);
         }
+        return i;
     }
 
     /// <summary>Four output rows of one field at once: row o is Σ_t blockKernel[t − o + 3] · ring[sources[t] + i] over the taps + 3 input rows.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     void DownBlock(float[] ring, int field)
     {
-        int n = _outColumns, inputs = _taps + Block - 1, i = 0;
-        ref float src = ref MemoryMarshal.GetArrayDataReference(ring);
-        ref float w = ref MemoryMarshal.GetArrayDataReference(_blockKernel);
-        ref int rows = ref MemoryMarshal.GetArrayDataReference(_sources);
-        ref float d0 = ref MemoryMarshal.GetArrayDataReference(_out[0][field]);
-        ref float d1 = ref MemoryMarshal.GetArrayDataReference(_out[1][field]);
-        ref float d2 = ref MemoryMarshal.GetArrayDataReference(_out[2][field]);
-        ref float d3 = ref MemoryMarshal.GetArrayDataReference(_out[3][field]);
-        if (Vector512.IsHardwareAccelerated)
-            for (; i + 16 <= n; i += 16)
-            {
-                var a0 = Vector512<float>.Zero; var a1 = a0; var a2 = a0; var a3 = a0;
-                for (int t = 0; t < inputs; t++)
-                {
-                    var v = Vector512.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, t) + i));
-                    a0 = Vector512.FusedMultiplyAdd(v, Vector512.Create(Unsafe.Add(ref w, t + 3)), a0);
-                    a1 = Vector512.FusedMultiplyAdd(v, Vector512.Create(Unsafe.Add(ref w, t + 2)), a1);
-                    a2 = Vector512.FusedMultiplyAdd(v, Vector512.Create(Unsafe.Add(ref w, t + 1)), a2);
-                    a3 = Vector512.FusedMultiplyAdd(v, Vector512.Create(Unsafe.Add(ref w, t)), a3);
-                }
-                a0.StoreUnsafe(ref d0, (nuint)i);
-                a1.StoreUnsafe(ref d1, (nuint)i);
-                a2.StoreUnsafe(ref d2, (nuint)i);
-                a3.StoreUnsafe(ref d3, (nuint)i);
-            }
-        if (V.IsHardwareAccelerated)
-            for (; i + 8 <= n; i += 8)
-            {
-                var a0 = Vector256<float>.Zero; var a1 = a0; var a2 = a0; var a3 = a0;
-                for (int t = 0; t < inputs; t++)
-                {
-                    var v = V.LoadUnsafe(ref src, (nuint)(Unsafe.Add(ref rows, t) + i));
-                    a0 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t + 3)), a0);
-                    a1 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t + 2)), a1);
-                    a2 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t + 1)), a2);
-                    a3 = V.FusedMultiplyAdd(v, V.Create(Unsafe.Add(ref w, t)), a3);
-                }
-                a0.StoreUnsafe(ref d0, (nuint)i);
-                a1.StoreUnsafe(ref d1, (nuint)i);
-                a2.StoreUnsafe(ref d2, (nuint)i);
-                a3.StoreUnsafe(ref d3, (nuint)i);
-            }
-        for (; i < n; i++)
+        int i = 0;
+        if (Lanes16.Available) i = DownBlock<Lanes16, Vector512<float>>(ring, field, i);
+        if (Lanes8.Available) i = DownBlock<Lanes8, Vector256<float>>(ring, field, i);
+        int inputs = _taps + Block - 1;
+        for (; i < _outColumns; i++)
         {
             float s0 = 0, s1 = 0, s2 = 0, s3 = 0;
             for (int t = 0; t < inputs; t++)
@@ -246,7 +202,37 @@ internal sealed class BandFilter
                 float v = ring[_sources[t] + i];
                 s0 += _blockKernel[t + 3] * v; s1 += _blockKernel[t + 2] * v; s2 += _blockKernel[t + 1] * v; s3 += _blockKernel[t] * v;
             }
-            Unsafe.Add(ref d0, i) = s0; Unsafe.Add(ref d1, i) = s1; Unsafe.Add(ref d2, i) = s2; Unsafe.Add(ref d3, i) = s3;
+            _out[0][field][i] = s0; _out[1][field][i] = s1; _out[2][field][i] = s2; _out[3][field][i] = s3;
         }
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    int DownBlock<L, TV>(float[] ring, int field, int i) where L : IFloatLanes<TV>
+    {
+        int n = _outColumns, inputs = _taps + Block - 1;
+        ref float src = ref MemoryMarshal.GetArrayDataReference(ring);
+        ref float w = ref MemoryMarshal.GetArrayDataReference(_blockKernel);
+        ref int rows = ref MemoryMarshal.GetArrayDataReference(_sources);
+        ref float d0 = ref MemoryMarshal.GetArrayDataReference(_out[0][field]);
+        ref float d1 = ref MemoryMarshal.GetArrayDataReference(_out[1][field]);
+        ref float d2 = ref MemoryMarshal.GetArrayDataReference(_out[2][field]);
+        ref float d3 = ref MemoryMarshal.GetArrayDataReference(_out[3][field]);
+        for (; i + L.Count <= n; i += L.Count)
+        {
+            TV a0 = L.Zero, a1 = L.Zero, a2 = L.Zero, a3 = L.Zero;
+            for (int t = 0; t < inputs; t++)
+            {
+                var v = L.Load(ref src, Unsafe.Add(ref rows, t) + i);
+                a0 = L.MultiplyAdd(v, L.Splat(Unsafe.Add(ref w, t + 3)), a0);
+                a1 = L.MultiplyAdd(v, L.Splat(Unsafe.Add(ref w, t + 2)), a1);
+                a2 = L.MultiplyAdd(v, L.Splat(Unsafe.Add(ref w, t + 1)), a2);
+                a3 = L.MultiplyAdd(v, L.Splat(Unsafe.Add(ref w, t)), a3);
+            }
+            L.Store(a0, ref d0, i);
+            L.Store(a1, ref d1, i);
+            L.Store(a2, ref d2, i);
+            L.Store(a3, ref d3, i);
+        }
+        return i;
     }
 }
