@@ -1,7 +1,8 @@
 """Peers for the similarity benchmark, on 721 x 1440 float32 frame pairs: scikit-image's
 structural_similarity (Gaussian window, sigma 1.5, population covariance, fixed data range,
 full map), and a numpy/scipy pixel-domain multi-scale VIF (scipy.ndimage separable Gaussian
-filtering, 'valid' crops), timed per pair. Prints seconds per SSIM pair and per VIF pair."""
+filtering, 'valid' crops), each the fastest of several timed pairs. Prints seconds per SSIM pair and
+per VIF pair."""
 import sys
 import time
 
@@ -14,10 +15,17 @@ rng = np.random.default_rng(5)
 a = (240 + 20 * rng.standard_normal((721, 1440))).astype("f4")
 b = (a + rng.standard_normal((721, 1440))).astype("f4")
 
-start = time.perf_counter()
-for _ in range(pairs):
-    structural_similarity(a, b, gaussian_weights=True, sigma=1.5, use_sample_covariance=False, data_range=140.0, full=True)
-ssim = (time.perf_counter() - start) / pairs
+def fastest(run, times):
+    """The shortest of several timed calls: on a shared machine, noise only ever adds time."""
+    best = float("inf")
+    for _ in range(times):
+        start = time.perf_counter()
+        run()
+        best = min(best, time.perf_counter() - start)
+    return best
+
+
+ssim = fastest(lambda: structural_similarity(a, b, gaussian_weights=True, sigma=1.5, use_sample_covariance=False, data_range=140.0, full=True), pairs)
 
 
 def window(n):
@@ -61,8 +69,5 @@ def vifp(ref, dist):
 
 ra = (a.astype("f8") - 180) * 255 / 140
 rb = (b.astype("f8") - 180) * 255 / 140
-start = time.perf_counter()
-for _ in range(max(1, pairs // 2)):
-    vifp(ra, rb)
-vif = (time.perf_counter() - start) / max(1, pairs // 2)
+vif = fastest(lambda: vifp(ra, rb), max(1, pairs // 2))
 print(f"{ssim:.6f} {vif:.6f}")
