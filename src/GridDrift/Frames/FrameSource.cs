@@ -178,9 +178,10 @@ internal sealed class FrameSource : IDisposable
     }
 
     /// <summary>Opens a file of the record again for reading; the first time, its horizontal coordinates are compared with the template's.</summary>
-    (IDatasetReader, NcVariable) Reopen(int index)
+    /// <summary>Copy <paramref name="copy"/> of file <paramref name="index"/>'s reader: the first copy of the first file is the template itself.</summary>
+    (IDatasetReader, NcVariable) Reopen(int index, int copy)
     {
-        if (index == 0) return (Template, Template.RequireVariable(VariableName));
+        if (index == 0 && copy == 0) return (Template, Template.RequireVariable(VariableName));
         var part = _parts[index];
         var reader = DatasetFiles.Open(part.Path);
         try
