@@ -40,7 +40,7 @@ internal static class DecadeProjection
         Measure.Warm(deflate);
         double read = NativeBenchmark.ChildRun("read", classic).Seconds / frames;
         double decompress = Math.Max(0, NativeBenchmark.ChildRun("read", deflate).Seconds / frames - read);
-        Console.WriteLine($"  reading {read * 1e3:0} ms/frame (uncompressed, page cache); decompression {decompress * 1e3:0} ms/frame more (two workers reading)");
+        Console.WriteLine($"  reading {read * 1e3:0} ms/frame (uncompressed, page cache); decompression {decompress * 1e3:0} ms/frame more (two workers, a reader each)");
 
         Console.WriteLine($"  {"command",-28} {"s/frame",8} {"read",6} {"decomp.",8} {"kernels",8} {"writing",8} {"peak",8}");
         double perFrame = 0, writing = 0, readAll = 0, decompressAll = 0, kernelsAll = 0;
