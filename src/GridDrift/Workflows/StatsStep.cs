@@ -31,7 +31,7 @@ internal sealed record StatsOptions(
 }
 
 /// <summary>What a stats run did, for the summary line and for tests.</summary>
-internal sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, RegionSet Regions_, IReadOnlyList<string> Warnings);
+internal sealed record StatsSummary(int Frames, int Regions, long Values, long BelowMinValid, long NoData, Grid Grid, IReadOnlyList<string> Warnings);
 
 /// <summary>
 /// `griddrift stats`: area-weighted statistics per frame and region, streamed. Frames are read
@@ -52,6 +52,6 @@ internal static class StatsStep
         var (below, noData) = record.RegionStatistics(regions, statistics, o.MinValid, products, slice, new EngineSettings(o.Workers, progress));
         products.Complete();
         var grid = record.Grid;
-        return new StatsSummary(slice.Count, regions.Count, (long)slice.Count * regions.Count * statistics.Length, below, noData, grid, regions, record.Warnings);
+        return new StatsSummary(slice.Count, regions.Count, (long)slice.Count * regions.Count * statistics.Length, below, noData, grid, record.Warnings);
     }
 }
