@@ -20,7 +20,12 @@ namespace GridDrift.Operators.Similarity;
 /// published VIF except for the border the published 'valid' filters drop and the pyramid's
 /// phase. Values are rescaled to 0–255 over the fixed data range (σ²_N assumes 8-bit grey
 /// levels). Missing cells take each frame's mean before filtering and get no terms (NaN).
-/// Filtered moments are float32 on values less their frame's mean, terms float32.
+/// Filtered moments are float32 on values less their frame's mean, terms float32. The coarse
+/// scales run first and their arguments are multiplied down the pyramid (a position of scale s
+/// stands for the position 2J, 2I of scale s − 1), so one logarithm at the second scale's
+/// positions and one per cell at the first replace a logarithm per scale, and the full-size maps
+/// are written once instead of being revisited scale by scale. Three factors stay far inside
+/// float32's range for any plausible field (each is at most 1 + σ²/σ²_N).
 /// </summary>
 internal sealed unsafe class VifField
 {
@@ -34,6 +39,8 @@ internal sealed unsafe class VifField
     readonly BandFilter?[] _pyramid = new BandFilter?[Scales];
     readonly float[][] _levelX = new float[Scales][], _levelY = new float[Scales][];
     readonly float[] _numRow, _denRow;
+    // scales 1 … 3: the product of each position's arguments with those of the coarser scales' positions it holds (logarithms at scale 1)
+    readonly float[][] _numBelow = new float[Scales][], _denBelow = new float[Scales][];
     readonly BandFilter.RowSource[] _momentSources = new BandFilter.RowSource[Scales], _pyramidSources = new BandFilter.RowSource[Scales];
     readonly BandFilter.RowSink[] _momentSinks = new BandFilter.RowSink[Scales], _pyramidSinks = new BandFilter.RowSink[Scales];
 
@@ -61,6 +68,8 @@ internal sealed unsafe class VifField
                 c = (c + 1) / 2;
                 _levelX[s] = new float[r * c];
                 _levelY[s] = new float[r * c];
+                _numBelow[s] = new float[r * c];
+                _denBelow[s] = new float[r * c];
             }
             _levelRows[s] = r;
             _levelColumns[s] = c;
@@ -99,11 +108,8 @@ internal sealed unsafe class VifField
             _a = a; _b = b; _num = pn; _den = pd;
             try
             {
-                for (int s = 0; s < Scales; s++)
-                {
-                    if (s > 0) _pyramid[s]!.Run(_pyramidSources[s], _pyramidSinks[s]);
-                    _moments[s].Run(_momentSources[s], _momentSinks[s]);
-                }
+                for (int s = 1; s < Scales; s++) _pyramid[s]!.Run(_pyramidSources[s], _pyramidSinks[s]);
+                for (int s = Scales - 1; s >= 0; s--) _moments[s].Run(_momentSources[s], _momentSinks[s]);
             }
             finally { _a = _b = _num = _den = null; }
         }
@@ -184,34 +190,73 @@ internal sealed unsafe class VifField
         TensorPrimitives.Multiply(px, py, padded[4].AsSpan(0, n));
     }
 
-    /// <summary>The terms of one row of level <paramref name="level"/>, written (level 0) or added (coarser levels) to the cells they stand for.</summary>
+    /// <summary>
+    /// The arguments of one row of level <paramref name="level"/>, times those of the coarser
+    /// positions each one holds: kept as products at the coarse levels (their logarithms at level
+    /// 1), turned into the cells' terms at level 0.
+    /// </summary>
     void TermsRow(int level, int row, float[][] m)
     {
         int c = _levelColumns[level];
         var num = _numRow.AsSpan(0, c);
         var den = _denRow.AsSpan(0, c);
         Arguments(m[0], m[1], m[2], m[3], m[4], num, den);
-        TensorPrimitives.Log10(num, num);
-        TensorPrimitives.Log10(den, den);
-        if (level == 0)
+        if (level == Scales - 1)
         {
-            long at = (long)row * _columns;
-            var a = new ReadOnlySpan<float>(_a + at, c);
-            var b = new ReadOnlySpan<float>(_b + at, c);
-            num.CopyTo(new Span<float>(_num + at, c));
-            den.CopyTo(new Span<float>(_den + at, c));
-            if (!_complete)
-                for (int i = 0; i < c; i++)
-                    if (float.IsNaN(a[i]) || float.IsNaN(b[i])) _num[at + i] = _den[at + i] = float.NaN;
+            num.CopyTo(_numBelow[level].AsSpan(row * c, c));
+            den.CopyTo(_denBelow[level].AsSpan(row * c, c));
             return;
         }
-        long stride = 1 << level, first = row * stride * _columns;
-        for (int i = 0; i < c; i++)
+        if (level > 0)
         {
-            long cell = first + i * stride;
-            // a NaN cell stays NaN: missing cells carry no terms at any scale
-            _num[cell] += num[i];
-            _den[cell] += den[i];
+            var numOut = _numBelow[level].AsSpan(row * c, c);
+            var denOut = _denBelow[level].AsSpan(row * c, c);
+            num.CopyTo(numOut);
+            den.CopyTo(denOut);
+            if (row % 2 == 0) MultiplyEvenColumns(numOut, denOut, level + 1, row / 2);
+            if (level == 1)
+            {
+                TensorPrimitives.Log10(numOut, numOut);
+                TensorPrimitives.Log10(denOut, denOut);
+            }
+            return;
+        }
+        long at = (long)row * _columns;
+        var numCells = new Span<float>(_num + at, c);
+        var denCells = new Span<float>(_den + at, c);
+        TensorPrimitives.Log10(num, numCells);
+        TensorPrimitives.Log10(den, denCells);
+        if (row % 2 == 0)
+        {
+            int cc = _levelColumns[1];
+            var numCoarse = _numBelow[1].AsSpan(row / 2 * cc, cc);
+            var denCoarse = _denBelow[1].AsSpan(row / 2 * cc, cc);
+            for (int i = 0; i < cc; i++)
+            {
+                numCells[2 * i] += numCoarse[i];
+                denCells[2 * i] += denCoarse[i];
+            }
+        }
+        if (!_complete)
+        {
+            var a = new ReadOnlySpan<float>(_a + at, c);
+            var b = new ReadOnlySpan<float>(_b + at, c);
+            // missing cells carry no terms at any scale
+            for (int i = 0; i < c; i++)
+                if (float.IsNaN(a[i]) || float.IsNaN(b[i])) numCells[i] = denCells[i] = float.NaN;
+        }
+    }
+
+    /// <summary>Multiplies the even positions 2I of a row by position I of row <paramref name="coarseRow"/> of level <paramref name="coarse"/>.</summary>
+    void MultiplyEvenColumns(Span<float> num, Span<float> den, int coarse, int coarseRow)
+    {
+        int cc = _levelColumns[coarse];
+        var numCoarse = _numBelow[coarse].AsSpan(coarseRow * cc, cc);
+        var denCoarse = _denBelow[coarse].AsSpan(coarseRow * cc, cc);
+        for (int i = 0; i < cc; i++)
+        {
+            num[2 * i] *= numCoarse[i];
+            den[2 * i] *= denCoarse[i];
         }
     }
 
