@@ -1,3 +1,4 @@
+using System.Runtime.Intrinsics;
 using GridDrift.Grids;
 namespace GridDrift.Operators.Similarity;
 
@@ -11,9 +12,11 @@ namespace GridDrift.Operators.Similarity;
 /// are handled by normalised convolution: every local moment is divided by the window weight
 /// that falls on cells valid in both frames; a cell missing in either frame, or whose valid
 /// window weight is below <see cref="MinWindowWeight"/>, gets no value (NaN). Moments are
-/// filtered in float32 on values shifted by the earlier frame's mean (so squares stay small and
-/// keep their digits) and combined in float64; against scikit-image's float64 maps the
-/// difference stays below 1e-5 per cell. SSIM needs the second moments only as σx² + σy² and
+/// filtered in float32 on values shifted by the earlier frame's mean (so squares stay small and keep
+/// their digits) and combined in float32 in a form without cancellation (see
+/// <see cref="CombineRow"/>); against scikit-image's float64 maps the difference stays below
+/// 1e-5 per cell (2e-6 measured: the filters' own float32 sums dominate, a float64 combine
+/// measured the same). SSIM needs the second moments only as σx² + σy² and
 /// σxy, so the sum s = a + b and difference d = a − b are squared instead of a², b² and ab:
 /// E[a²] + E[b²] = (E[s²] + E[d²]) / 2 and 2E[ab] = (E[s²] − E[d²]) / 2, four filtered fields
 /// instead of five. For identical frames d = 0 and both halves of the ratio stay equal bit for bit.
@@ -67,15 +70,8 @@ internal sealed class Ssim
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Map(ReadOnlySpan<float> x, ReadOnlySpan<float> y, Span<float> map)
     {
-        bool complete = true;
-        double sum = 0;
-        int count = 0;
-        for (int i = 0; i < x.Length; i++)
-        {
-            bool valid = !float.IsNaN(x[i]) && !float.IsNaN(y[i]);
-            complete &= valid;
-            if (valid) { sum += x[i]; count++; }
-        }
+        var (sum, _, count) = ValidPairs.Sums(x, y);
+        bool complete = count == x.Length;
         _shift = count > 0 ? Math.Round(sum / count) : 0;
         Array.Fill(_cached, -1);
         int first = complete ? 1 : 0;
@@ -101,48 +97,9 @@ internal sealed class Ssim
             for (int b = 0; b < nb; b++)
             {
                 int j = j0 + b;
-                Combine(x.Slice(j * _columns, _columns), y.Slice(j * _columns, _columns), complete, map.Slice(j * _columns, _columns), b * _columns);
+                CombineRow(x.Slice(j * _columns, _columns), y.Slice(j * _columns, _columns), complete, map.Slice(j * _columns, _columns), b * _columns);
             }
         }
-    }
-
-    /// <summary>The complete-frame case of <see cref="Combine"/>, eight cells at a time in float64 lanes, same grouping.</summary>
-    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
-    int CombineComplete(Span<float> target, int offset)
-    {
-        if (!System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated) return 0;
-        var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
-        var fss = _out[3].AsSpan(offset, _columns); var fdd = _out[4].AsSpan(offset, _columns);
-        var shift = System.Runtime.Intrinsics.Vector256.Create(_shift);
-        var c1 = System.Runtime.Intrinsics.Vector256.Create(_c1);
-        var c2 = System.Runtime.Intrinsics.Vector256.Create(_c2);
-        var two = System.Runtime.Intrinsics.Vector256.Create(2.0);
-        int i = 0;
-        for (; i + 8 <= _columns; i += 8)
-        {
-            var (maL, maH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fa.Slice(i, 8)));
-            var (mbL, mbH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fb.Slice(i, 8)));
-            var (ssL, ssH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fss.Slice(i, 8)));
-            var (ddL, ddH) = System.Runtime.Intrinsics.Vector256.Widen(System.Runtime.Intrinsics.Vector256.Create(fdd.Slice(i, 8)));
-            var lo = Ratio(maL, mbL, ssL, ddL, shift, c1, c2, two);
-            var hi = Ratio(maH, mbH, ssH, ddH, shift, c1, c2, two);
-            System.Runtime.Intrinsics.Vector256.CopyTo(System.Runtime.Intrinsics.Vector256.Narrow(lo, hi), target.Slice(i, 8));
-        }
-        return i;
-    }
-
-    static System.Runtime.Intrinsics.Vector256<double> Ratio(System.Runtime.Intrinsics.Vector256<double> ma, System.Runtime.Intrinsics.Vector256<double> mb,
-        System.Runtime.Intrinsics.Vector256<double> ss, System.Runtime.Intrinsics.Vector256<double> dd,
-        System.Runtime.Intrinsics.Vector256<double> shift, System.Runtime.Intrinsics.Vector256<double> c1, System.Runtime.Intrinsics.Vector256<double> c2,
-        System.Runtime.Intrinsics.Vector256<double> two)
-    {
-        var half = System.Runtime.Intrinsics.Vector256.Create(0.5);
-        var spread = (ss + dd) * half - (ma * ma + mb * mb);
-        var cov2 = (ss - dd) * half - two * (ma * mb);
-        var mx = ma + shift; var my = mb + shift;
-        var a1 = two * (mx * my) + c1; var b1 = (mx * mx + my * my) + c1;
-        var a2 = cov2 + c2; var b2 = spread + c2;
-        return a1 * a2 / (b1 * b2);
     }
 
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
@@ -150,37 +107,35 @@ internal sealed class Ssim
     {
         var xr = x.Slice(row * _columns, _columns);
         var yr = y.Slice(row * _columns, _columns);
-        int r = _radius, p = 0;
+        int r = _radius, i = 0;
         float shift = (float)_shift;
-        if (firstField == 1 && System.Runtime.Intrinsics.Vector256.IsHardwareAccelerated)
+        if (Vector256.IsHardwareAccelerated)
         {
-            // complete frames: the interior of the row in eight-lane steps, the edges below one by one
-            var vs = System.Runtime.Intrinsics.Vector256.Create(shift);
-            int i = 0;
+            // the interior of the row in eight-lane steps, the edges below one by one
+            var vs = Vector256.Create(shift);
+            var one = Vector256.Create(1f);
             for (; i + 8 <= _columns; i += 8)
             {
-                var a = System.Runtime.Intrinsics.Vector256.Create(xr.Slice(i, 8)) - vs;
-                var b = System.Runtime.Intrinsics.Vector256.Create(yr.Slice(i, 8)) - vs;
-                System.Runtime.Intrinsics.Vector256.CopyTo(a, _padded[1].AsSpan(r + i));
-                System.Runtime.Intrinsics.Vector256.CopyTo(b, _padded[2].AsSpan(r + i));
+                var vx = Vector256.Create(xr.Slice(i, 8));
+                var vy = Vector256.Create(yr.Slice(i, 8));
+                var valid = Vector256.Equals(vx, vx) & Vector256.Equals(vy, vy);
+                var a = (vx - vs) & valid;
+                var b = (vy - vs) & valid;
+                (one & valid).CopyTo(_padded[0].AsSpan(r + i));
+                a.CopyTo(_padded[1].AsSpan(r + i));
+                b.CopyTo(_padded[2].AsSpan(r + i));
                 var sum = a + b; var difference = a - b;
-                System.Runtime.Intrinsics.Vector256.CopyTo(sum * sum, _padded[3].AsSpan(r + i));
-                System.Runtime.Intrinsics.Vector256.CopyTo(difference * difference, _padded[4].AsSpan(r + i));
-            }
-            for (; i < _columns; i++) Put(xr[i], yr[i], r + i, shift);
-            for (p = 0; p < r; p++)
-            {
-                int left = Edges.Index(p - r, _columns, _xEdge), right = Edges.Index(_columns + p, _columns, _xEdge);
-                Put(xr[left], yr[left], p, shift);
-                Put(xr[right], yr[right], _columns + r + p, shift);
+                (sum * sum).CopyTo(_padded[3].AsSpan(r + i));
+                (difference * difference).CopyTo(_padded[4].AsSpan(r + i));
             }
         }
-        else
-            for (p = 0; p < _columns + 2 * r; p++)
-            {
-                int i = p < r || p >= _columns + r ? Edges.Index(p - r, _columns, _xEdge) : p - r;
-                Put(xr[i], yr[i], p, shift);
-            }
+        for (; i < _columns; i++) Put(xr[i], yr[i], r + i, shift);
+        for (int p = 0; p < r; p++)
+        {
+            int left = Edges.Index(p - r, _columns, _xEdge), right = Edges.Index(_columns + p, _columns, _xEdge);
+            Put(xr[left], yr[left], p, shift);
+            Put(xr[right], yr[right], _columns + r + p, shift);
+        }
         for (int f = firstField; f < Fields; f++) SsimKernels.Along(_kernel, _padded[f], _ring[f].AsSpan(slot * _columns, _columns));
     }
 
@@ -196,29 +151,59 @@ internal sealed class Ssim
         _padded[4][p] = difference * difference;
     }
 
+    /// <summary>
+    /// One row of the map from the filtered moments (ma, mb: local means of the shifted values;
+    /// ss, dd: of s² and d²). SSIM's factors are written so that nothing cancels but the
+    /// covariance: a1 = 2μxμy + C1 and a2 = 2σxy + C2 = (ss − dd)/2 − 2·ma·mb + C2, and the
+    /// denominator's factors are these plus squares, μx² + μy² = 2μxμy + (ma − mb)² and
+    /// σx² + σy² = 2σxy + σ²_d with σ²_d = dd − (ma − mb)². SSIM = a1/(a1 + e²) · a2/(a2 + σ²_d):
+    /// two quotients of like magnitude, so no product overflows float32 whatever the units, and
+    /// identical frames (d = 0) give exactly 1. Eight cells at a time; frames with missing cells
+    /// first divide their moments by the valid window weight (normalised convolution).
+    /// </summary>
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
-    void Combine(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target, int offset)
+    void CombineRow(ReadOnlySpan<float> xr, ReadOnlySpan<float> yr, bool complete, Span<float> target, int offset)
     {
-        var m = _out[0].AsSpan(offset, _columns); var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
+        var fa = _out[1].AsSpan(offset, _columns); var fb = _out[2].AsSpan(offset, _columns);
         var fss = _out[3].AsSpan(offset, _columns); var fdd = _out[4].AsSpan(offset, _columns);
-        int start = complete ? CombineComplete(target, offset) : 0;
-        for (int i = start; i < _columns; i++)
-        {
-            double w = complete ? 1 : m[i];
-            if (!complete && (float.IsNaN(xr[i]) || float.IsNaN(yr[i]) || w < MinWindowWeight))
+        var weight = _out[0].AsSpan(offset, _columns);
+        if (!complete)
+            for (int k = 0; k < _columns; k++)
             {
-                target[i] = float.NaN;
-                continue;
+                float inv = 1 / weight[k];
+                fa[k] *= inv; fb[k] *= inv; fss[k] *= inv; fdd[k] *= inv;
             }
-            double inv = 1 / w;
-            double ma = fa[i] * inv, mb = fb[i] * inv;
-            double ss = fss[i] * inv, dd = fdd[i] * inv;
-            double spread = (ss + dd) * 0.5 - (ma * ma + mb * mb), cov2 = (ss - dd) * 0.5 - 2.0 * (ma * mb);
-            double mx = ma + _shift, my = mb + _shift;
-            // grouped so that identical frames give exactly 1: 2(μxμy) = μx² + μy² and 2σxy = σx² + σy² bit for bit
-            double a1 = 2.0 * (mx * my) + _c1, b1 = (mx * mx + my * my) + _c1;
-            double a2 = cov2 + _c2, b2 = spread + _c2;
-            target[i] = (float)(a1 * a2 / (b1 * b2));
+        float shift = (float)_shift, c1 = (float)_c1, c2 = (float)_c2;
+        int i = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var vshift = Vector256.Create(shift);
+            var vc1 = Vector256.Create(c1);
+            var vc2 = Vector256.Create(c2);
+            var half = Vector256.Create(0.5f);
+            for (; i + 8 <= _columns; i += 8)
+            {
+                var ma = Vector256.Create(fa.Slice(i, 8)); var mb = Vector256.Create(fb.Slice(i, 8));
+                var ss = Vector256.Create(fss.Slice(i, 8)); var dd = Vector256.Create(fdd.Slice(i, 8));
+                var e = ma - mb;
+                var e2 = e * e;
+                var p = (ma + vshift) * (mb + vshift);
+                var q = ma * mb;
+                var a1 = (p + p) + vc1;
+                var a2 = ((ss - dd) * half - (q + q)) + vc2;
+                (a1 / (a1 + e2) * (a2 / (a2 + (dd - e2)))).CopyTo(target.Slice(i, 8));
+            }
         }
+        for (; i < _columns; i++)
+        {
+            float ma = fa[i], mb = fb[i], ss = fss[i], dd = fdd[i];
+            float e = ma - mb, e2 = e * e;
+            float p = (ma + shift) * (mb + shift), q = ma * mb;
+            float a1 = (p + p) + c1, a2 = ((ss - dd) * 0.5f - (q + q)) + c2;
+            target[i] = a1 / (a1 + e2) * (a2 / (a2 + (dd - e2)));
+        }
+        if (!complete)
+            for (int k = 0; k < _columns; k++)
+                if (float.IsNaN(xr[k]) || float.IsNaN(yr[k]) || weight[k] < MinWindowWeight) target[k] = float.NaN;
     }
 }

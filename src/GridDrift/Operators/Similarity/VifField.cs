@@ -99,7 +99,7 @@ internal sealed unsafe class VifField
     {
         if (x.Length != _rows * _columns || y.Length != x.Length || num.Length != x.Length || den.Length != x.Length)
             throw new ArgumentException($"VIF terms need {_rows} × {_columns} cells in every field");
-        var (sx, sy, count) = ValidSums(x, y);
+        var (sx, sy, count) = ValidPairs.Sums(x, y);
         _complete = count == x.Length;
         _shiftX = count > 0 ? (float)((sx / count - _low) * _scale) : 0;
         _shiftY = count > 0 ? (float)((sy / count - _low) * _scale) : 0;
@@ -113,28 +113,6 @@ internal sealed unsafe class VifField
             }
             finally { _a = _b = _num = _den = null; }
         }
-    }
-
-    /// <summary>Sums of x and of y over the cells valid in both, and their count; float64 over eight-lane float32 blocks.</summary>
-    static (double X, double Y, int Count) ValidSums(ReadOnlySpan<float> x, ReadOnlySpan<float> y)
-    {
-        double sx = 0, sy = 0;
-        int count = 0, i = 0;
-        if (Vector256.IsHardwareAccelerated)
-            for (; i + 8 <= x.Length; i += 8)
-            {
-                var a = Vector256.Create(x.Slice(i, 8));
-                var b = Vector256.Create(y.Slice(i, 8));
-                var valid = Vector256.Equals(a, a) & Vector256.Equals(b, b);
-                var (al, ah) = Vector256.Widen(a & valid);
-                var (bl, bh) = Vector256.Widen(b & valid);
-                sx += Vector256.Sum(al + ah);
-                sy += Vector256.Sum(bl + bh);
-                count += BitOperations.PopCount(valid.ExtractMostSignificantBits());
-            }
-        for (; i < x.Length; i++)
-            if (!float.IsNaN(x[i]) && !float.IsNaN(y[i])) { sx += x[i]; sy += y[i]; count++; }
-        return (sx, sy, count);
     }
 
     /// <summary>Row <paramref name="row"/> of level <paramref name="level"/>'s two images into padded[0] and padded[1].</summary>

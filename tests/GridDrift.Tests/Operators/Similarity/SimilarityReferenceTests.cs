@@ -31,6 +31,36 @@ public class SimilarityReferenceTests
         for (int i = 0; i < map.Length; i++) Assert.True(Math.Abs(map[i] - expected[i]) <= 1e-5, $"cell {i}: {map[i]} vs {expected[i]}");
     }
 
+    [InteropTheory(Needs.PythonScipy)]
+    [InlineData(40, 64, false, 0.02)]
+    [InlineData(57, 83, true, 0.1)]
+    public void With_missing_cells_the_SSIM_map_equals_normalised_convolution_cell_by_cell(int rows, int columns, bool periodic, double missing)
+    {
+        // witness: ssim_masked_reference.py, a float64 numpy/scipy re-implementation of the
+        // documented form (normalised convolution, Knutsson & Westin 1993), wrapping in x where periodic
+        var (a, b) = Fields(rows, columns, rows + columns, 2.0);
+        var rng = new Random(rows);
+        for (int k = 0; k < a.Length; k++)
+        {
+            if (rng.NextDouble() < missing) a[k] = float.NaN;
+            if (rng.NextDouble() < missing) b[k] = float.NaN;
+        }
+        for (int i = 0; i < columns; i++) a[3 * columns + i] = float.NaN; // a whole missing row: some windows fall below half weight
+        using var dir = new TempFolder();
+        string out_ = dir.File("map.bin");
+        ExternalTools.RunPython("ssim_masked_reference.py", FieldPairs.Bin(dir, "a.bin", a.Select(v => (double)v)), FieldPairs.Bin(dir, "b.bin", b.Select(v => (double)v)),
+            rows.ToString(), columns.ToString(), "140", periodic ? "wrap" : "reflect", out_);
+        var expected = File.ReadAllBytes(out_).Chunk(8).Select(c => BitConverter.ToDouble(c)).ToArray();
+        var map = new float[rows * columns];
+        new Ssim(rows, columns, periodic, 180, 320).Map(a, b, map);
+        Assert.Contains(expected, double.IsNaN);
+        for (int i = 0; i < map.Length; i++)
+        {
+            Assert.True(double.IsNaN(expected[i]) == float.IsNaN(map[i]), $"cell {i}: missing in one map only ({map[i]} vs {expected[i]})");
+            if (!double.IsNaN(expected[i])) Assert.True(Math.Abs(map[i] - expected[i]) <= 1e-5, $"cell {i}: {map[i]} vs {expected[i]}");
+        }
+    }
+
     [Fact]
     public void Identical_frames_have_an_SSIM_of_exactly_one()
     {
