@@ -124,7 +124,7 @@ internal sealed class BandFilter
     /// <summary>target[i] = Σ_k w_k · padded[i + k]; pairs of symmetric taps share one multiply. Sixteen lanes where the machine has them (VIF's maps 31 % faster here than with eight), then eight.</summary>
     void Along(ReadOnlySpan<float> padded, Span<float> target)
     {
-        int i = 0;
+        int i = ShiftedAlong.Handles(_radius) ? ShiftedAlong.Run(_kernel, padded, target) : 0;
         if (Lanes16.Available) i = Along<Lanes16, Vector512<float>>(padded, target, i);
         if (Lanes8.Available) i = Along<Lanes8, Vector256<float>>(padded, target, i);
         int r = _radius;

@@ -60,7 +60,7 @@ internal sealed class Ssim
         _slots = Block + 2 * _radius;
         _kernel = GaussianKernel.Truncated(Sigma).Select(w => (float)w).ToArray();
         _ring = Enumerable.Range(0, Fields).Select(_ => new float[_slots * columns]).ToArray();
-        _padded = Enumerable.Range(0, Fields).Select(_ => new float[columns + 2 * _radius]).ToArray();
+        _padded = Enumerable.Range(0, Fields).Select(_ => new float[columns + 2 * _radius + 16]).ToArray(); // 16 spare: the shifted filter reads a step ahead
         _out = Enumerable.Range(0, Fields).Select(_ => new float[Block * columns]).ToArray();
         _cached = new int[_slots];
         _sources = new int[_slots];

@@ -17,7 +17,7 @@ static class SsimKernels
     /// <summary>target[i] = Σ_k w_k · source[i + k]; pairs of symmetric taps share one multiply. Sixteen lanes where the machine has them, then eight.</summary>
     public static void Along(float[] kernel, ReadOnlySpan<float> source, Span<float> target)
     {
-        int n = target.Length, i = 0;
+        int n = target.Length, i = ShiftedAlong.Handles(Radius) ? ShiftedAlong.Run(kernel, source, target) : 0;
         if (Lanes16.Available) i = Along<Lanes16, Vector512<float>>(kernel, source, target, i);
         if (Lanes8.Available) i = Along<Lanes8, Vector256<float>>(kernel, source, target, i);
         ref float src = ref MemoryMarshal.GetReference(source);
