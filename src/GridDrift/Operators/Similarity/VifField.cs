@@ -68,8 +68,10 @@ internal sealed unsafe class VifField
                 c = (c + 1) / 2;
                 _levelX[s] = new float[r * c];
                 _levelY[s] = new float[r * c];
-                _numBelow[s] = new float[r * c];
-                _denBelow[s] = new float[r * c];
+                // the products of a level take the place of its images: its moment filter has read
+                // source row j into its ring before it emits output row j, and never reads it again
+                _numBelow[s] = _levelX[s];
+                _denBelow[s] = _levelY[s];
             }
             _levelRows[s] = r;
             _levelColumns[s] = c;
