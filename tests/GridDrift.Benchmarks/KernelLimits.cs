@@ -22,11 +22,12 @@ internal static class KernelLimits
     /// <summary>Counted per cell: float operations and bytes to and from memory (not cache).</summary>
     static readonly (string Kernel, double Flops, double Bytes)[] Counts =
     [
-        // shift and square (6); along rows 4 fields × 16; down 4 fields × 14 inputs × 2 (blocked); combine ~20 (float64, one division); reads 2 frames, writes the map
-        ("SSIM map", 6 + 4 * 16 + 4 * 28 + 20, 12),
-        // level 0: rescale 6, products 3, along 5 × 25, down 5 × 40 (blocked), terms ~25 + two logarithms ~40; pyramid prefilter 2 × 13 full rows + 6.5;
-        // coarser levels ~0.33 × 250; reads 2 frames, writes two maps
-        ("VIF term maps", 9 + 125 + 200 + 65 + 33 + 83, 16),
+        // valid sums (6); mask, shift and square (8); along rows 4 fields × 16; down 4 fields × 14 inputs × 2 (blocked); combine 18 (float32, two divisions);
+        // reads 2 frames twice (sums, filter), writes the map
+        ("SSIM map", 6 + 8 + 4 * 16 + 4 * 28 + 18, 20),
+        // valid sums (6); level 0: rescale 6, products 3, along 5 × 25, down 5 × 40 (blocked), terms ~25 + two logarithms ~40; pyramid prefilter 2 × 13 full rows + 6.5;
+        // coarser levels ~0.33 × 250 (their logarithms at the second scale only); reads 2 frames twice, writes two maps
+        ("VIF term maps", 6 + 9 + 125 + 200 + 65 + 33 + 83, 24),
         // two distinct longitude ranges (global and bands share one): 2 × (load, mask, 3 sums ≈ 10); reads each cell once per range
         ("stats: mean, std, min, max, valid", 20, 8),
         // the above, bin the frame (4), histogram three memberships (2 each), pick test (3 × 1); bins written once and read twice per membership
