@@ -3,7 +3,7 @@ using GridDrift.Formats.Hdf5;
 
 namespace GridDrift.Formats;
 
-/// <summary>Opens any supported file: the format is sniffed from its magic bytes, never from its name.</summary>
+/// <summary>Opens any supported file or store: the format is sniffed from its magic bytes (a Zarr store from its metadata documents), never from its name.</summary>
 internal static class DatasetFiles
 {
     static ReadOnlySpan<byte> Hdf5Signature => [0x89, (byte)'H', (byte)'D', (byte)'F', (byte)'\r', (byte)'\n', 0x1A, (byte)'\n'];
@@ -23,7 +23,9 @@ internal static class DatasetFiles
 
     static IDatasetReader Sniff(string path)
     {
-        if (Directory.Exists(path)) throw new BadInputException(path, null, "is a directory, not a NetCDF file");
+        if (Directory.Exists(path))
+            return Zarr.ZarrMetadata.IsStore(path) ? Zarr.ZarrReader.Open(path)
+                : throw new BadInputException(path, null, "is a directory, neither a NetCDF file nor a Zarr store (no zarr.json, .zgroup, .zarray or .zmetadata)");
         if (!File.Exists(path)) throw new BadInputException(path, null, "no such file");
         Span<byte> head = stackalloc byte[8];
         int n;

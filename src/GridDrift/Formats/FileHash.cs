@@ -12,6 +12,7 @@ internal static class FileHash
     /// </summary>
     public static unsafe string Sha256(string path)
     {
+        if (Directory.Exists(path)) return FolderSha256(path);
         const long Window = 64L << 20;
         long length = new FileInfo(path).Length;
         if (length > 0)
@@ -40,4 +41,27 @@ internal static class FileHash
         return Convert.ToHexStringLower(SHA256.HashData(stream));
     }
 
+    /// <summary>
+    /// The checksum of a folder store (Zarr): the SHA-256 of every file's path relative to the
+    /// folder ('/' separators), a zero byte, its length (8 bytes, little-endian) and its bytes,
+    /// files in ordinal order of their paths, so the same objects give the same sum anywhere.
+    /// </summary>
+    static string FolderSha256(string folder)
+    {
+        using var hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
+        var files = Directory.EnumerateFiles(folder, "*", SearchOption.AllDirectories)
+            .Select(f => (Relative: Path.GetRelativePath(folder, f).Replace(Path.DirectorySeparatorChar, '/'), Full: f))
+            .OrderBy(f => f.Relative, StringComparer.Ordinal);
+        var buffer = new byte[1 << 20];
+        foreach (var (relative, full) in files)
+        {
+            hash.AppendData(System.Text.Encoding.UTF8.GetBytes(relative));
+            hash.AppendData([0]);
+            using var stream = new FileStream(full, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16);
+            hash.AppendData(BitConverter.GetBytes(stream.Length));
+            int n;
+            while ((n = stream.Read(buffer)) > 0) hash.AppendData(buffer, 0, n);
+        }
+        return Convert.ToHexStringLower(hash.GetHashAndReset());
+    }
 }
