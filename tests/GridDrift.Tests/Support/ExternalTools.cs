@@ -29,6 +29,28 @@ public static class ExternalTools
     public static bool HasSlurm => HasSlurmLazy.Value;
     public static bool HasPythonZarr => HasPythonZarrLazy.Value;
 
+    /// <summary>The checkout's folder of the Zarr v3 witness (zarrita, installed by npm ci there), or null when node or the packages are missing.</summary>
+    public static string? ZarritaFolder => ZarritaFolderLazy.Value;
+
+    static readonly Lazy<string?> ZarritaFolderLazy = new(() =>
+    {
+        for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
+        {
+            string folder = Path.Combine(dir.FullName, "tests", "GridDrift.Tests", "Interop", "zarrita");
+            if (Directory.Exists(Path.Combine(folder, "node_modules", "zarrita"))) return Runs("node", "--version") ? folder : null;
+        }
+        return null;
+    });
+
+    /// <summary>Runs a node script of the zarrita folder; fails the test on a non-zero exit.</summary>
+    public static string RunNode(string script, params string[] arguments)
+    {
+        string folder = ZarritaFolder ?? throw new InvalidOperationException("node with zarrita is not installed (npm ci --prefix tests/GridDrift.Tests/Interop/zarrita)");
+        var r = Run("node", $"\"{Path.Combine(folder, script)}\" " + string.Join(" ", arguments.Select(a => $"\"{a}\"")), workingDirectory: folder);
+        if (r.ExitCode != 0) throw new InvalidOperationException($"{script} failed ({r.ExitCode}): {r.Stderr}");
+        return r.Stdout;
+    }
+
     public static bool InteropRequired => Environment.GetEnvironmentVariable("GRIDDRIFT_REQUIRE_INTEROP") == "1";
 
     static bool Runs(string file, string arguments, bool acceptAnyExit = false)
