@@ -60,6 +60,16 @@ internal static class DatasetFiles
             throw new BadInputException(path, null, $"unknown NetCDF classic version byte {head[3]}");
         }
         if (n == 8 && head.SequenceEqual(Hdf5Signature)) return Hdf5Reader.Open(path);
-        throw new BadInputException(path, null, "not a NetCDF file (neither the classic nor the HDF5 signature)");
+        if (StartsWithGrib(path)) return Grib.GribReader.Open(path);
+        throw new BadInputException(path, null, "not a NetCDF, GRIB or Zarr dataset (neither the classic nor the HDF5 signature, nor a GRIB message)");
+    }
+
+    /// <summary>A GRIB message within the file's first 4 KiB (a bulletin header may come first).</summary>
+    static bool StartsWithGrib(string path)
+    {
+        var head = new byte[4096];
+        using var handle = File.OpenHandle(path, FileMode.Open, FileAccess.Read, FileShare.Read);
+        int n = RandomAccess.Read(handle, head, 0);
+        return Grib.GribIndex.LooksLikeGrib(head.AsSpan(0, n));
     }
 }

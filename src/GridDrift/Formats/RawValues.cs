@@ -17,8 +17,9 @@ internal static class RawValues
     public static void RequireNumeric(string path, NcVariable variable)
     {
         if (variable.Type == NcType.Unsupported)
-            throw new BadInputException(path, variable.Name,
-                $"is of the {variable.UnsupportedKind} type, which GridDrift lists but does not read");
+            throw new BadInputException(path, variable.Name, variable.UnsupportedKind is { } kind && kind.Contains(' ')
+                ? $"cannot be read: {kind}" // a reason, not a type's name
+                : $"is of the {variable.UnsupportedKind} type, which GridDrift lists but does not read");
         if (!NcTypes.IsNumeric(variable.Type))
             throw new BadInputException(path, variable.Name, $"is of type {variable.TypeName}, not numeric");
     }

@@ -17,6 +17,7 @@ public static class ExternalTools
     static readonly Lazy<bool> HasPythonNetcdfLazy = new(() => Runs(Python, "-c \"import netCDF4, numpy\""));
     static readonly Lazy<bool> HasPythonScipyLazy = new(() => Runs(Python, "-c \"import scipy, numpy\""));
     static readonly Lazy<bool> HasPythonZarrLazy = new(() => Runs(Python, "-c \"import zarr, numcodecs.blosc, numpy\"") && GridDrift.Formats.Zarr.BloscLibrary.Available);
+    static readonly Lazy<bool> HasPythonEccodesLazy = new(() => Runs(Python, "-c \"import eccodes, numpy\"") && GridDrift.Formats.Grib.Eccodes.Available);
     static readonly Lazy<bool> HasPythonStatsmodelsLazy = new(() => Runs(Python, "-c \"import statsmodels, scipy, numpy\""));
     // a cluster that answers, with a node that can take jobs
     static readonly Lazy<bool> HasSlurmLazy = new(() => Runs("sinfo", "-h -o %T") && Run("sinfo", "-h -o %T", 30).Stdout.Split('\n').Any(s => s.Trim() is "idle" or "mixed" or "allocated"));
@@ -28,6 +29,7 @@ public static class ExternalTools
     public static bool HasPythonStatsmodels => HasPythonStatsmodelsLazy.Value;
     public static bool HasSlurm => HasSlurmLazy.Value;
     public static bool HasPythonZarr => HasPythonZarrLazy.Value;
+    public static bool HasPythonEccodes => HasPythonEccodesLazy.Value;
 
     /// <summary>The checkout's folder of the Zarr v3 witness (zarrita, installed by npm ci there), or null when node or the packages are missing.</summary>
     public static string? ZarritaFolder => ZarritaFolderLazy.Value;

@@ -15,6 +15,7 @@ public enum Needs
     Slurm = 128,
     PythonZarr = 256,
     NodeZarrita = 512,
+    PythonEccodes = 1024,
 }
 
 /// <summary>
@@ -39,6 +40,7 @@ public sealed class InteropFactAttribute : FactAttribute
         [Needs.Slurm] = "a running Slurm cluster (as root: bash .ci/slurm/up, after apt-get install slurmctld slurmd slurm-client munge)",
         [Needs.SharedData] = "the shared test files of the project (its shared/ folder, placed beside the checkout as ../shared, or: export GRIDDRIFT_SHARED=/path/to/shared)",
         [Needs.Fonts] = "a TrueType font for plot labels (apt-get install fonts-dejavu-core)",
+        [Needs.PythonEccodes] = "ecCodes with its python bindings (apt-get install libeccodes0 libeccodes-data python3-eccodes)",
         [Needs.NodeZarrita] = "node with zarrita (npm ci --prefix tests/GridDrift.Tests/Interop/zarrita)",
         [Needs.PythonZarr] = "python3-zarr with blosc (apt-get install python3-zarr python3-numcodecs libblosc1)",
     };
@@ -54,6 +56,7 @@ public sealed class InteropFactAttribute : FactAttribute
         if (needs.HasFlag(Needs.Slurm) && !ExternalTools.HasSlurm) absent.Add(Needs.Slurm);
         if (needs.HasFlag(Needs.PythonZarr) && !ExternalTools.HasPythonZarr) absent.Add(Needs.PythonZarr);
         if (needs.HasFlag(Needs.NodeZarrita) && ExternalTools.ZarritaFolder is null) absent.Add(Needs.NodeZarrita);
+        if (needs.HasFlag(Needs.PythonEccodes) && !ExternalTools.HasPythonEccodes) absent.Add(Needs.PythonEccodes);
         if (needs.HasFlag(Needs.SharedData) && SharedData.Root is null) absent.Add(Needs.SharedData);
         if (needs.HasFlag(Needs.Fonts) && !HasFont()) absent.Add(Needs.Fonts);
         return absent.Count == 0 ? null : "skipped: needs " + string.Join(", ", absent.Select(n => Remedies[n]));
