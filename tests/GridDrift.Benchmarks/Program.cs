@@ -11,6 +11,7 @@ using GridDrift.Benchmarks;
 //   native [FRAMES] [--dir DIR]       3712 × 3712 frames over 163 regions: similarity ssim,vif, vif, stats: time per pair and peak memory
 //   native project [FRAMES] [--dir D] stats + similarity ssim,vif + month climatology on FRAMES deflate NetCDF-4 3712² frames: time split, 90,000-frame projection
 //   limits                            each kernel's time per cell against this machine's measured vector arithmetic and memory rates
+//   formats [FRAMES] [--dir DIR]       721 × 1440 frames from GRIB 2 (ecCodes) and Zarr v2 (blosc-lz4, zstd) vs python3-eccodes and python3-zarr: frames/s
 //   images [FILES] [--dir DIR]         FILES one-image 500 × 500 int16 files vs the same frames stacked in one file, through stats
 return args.FirstOrDefault() switch
 {
@@ -25,6 +26,8 @@ return args.FirstOrDefault() switch
     "longrecord" => LongRecordBenchmark.Run(args[1..]),
     "longrecord-one" => LongRecordBenchmark.RunOne(args[1..]),
     "images" => ImagesBenchmark.Run(args[1..]),
+    "formats" => FormatsBenchmark.Run(args[1..]),
+    "formats-one" => FormatsBenchmark.RunOne(args[1..]),
     "native" => NativeBenchmark.Run(args[1..]),
     "native-one" => NativeBenchmark.RunOne(args[1..]),
     "limits" => KernelLimits.Run(args[1..]),

@@ -95,3 +95,44 @@ public class ZarrCommandTests
 
     static void Ok(CliRun.Outcome outcome) => Assert.True(outcome.ExitCode == 0, outcome.Stderr);
 }
+
+/// <summary>
+/// The shared cache of decoded chunks under load: four threads read every frame of a store whose
+/// chunks hold three frames each, over and over, with a budget of a few chunks, so chunks are
+/// decoded ahead, shared, evicted and their buffers reused while others read; every frame must
+/// still equal what python3-zarr reads.
+/// </summary>
+[Collection("decoded chunk budget")]
+public class ZarrSharedChunkTests
+{
+    [InteropFact(Needs.PythonZarr)]
+    public void Frames_read_at_once_by_several_threads_stay_right_while_chunks_are_evicted()
+    {
+        const int Times = 7, Rows = 25, Columns = 144;
+        using var dir = new TempFolder();
+        string store = dir.File("record.zarr"), witness = dir.File("witness.bin");
+        ExternalTools.RunPython("zarr_v2_store.py", store, "zstd", "0", witness);
+        var expected = File.ReadAllBytes(witness).Chunk(8).Select(c => BitConverter.ToDouble(c)).ToArray();
+        long saved = GridDrift.Formats.Zarr.DecodedChunks.Budget;
+        GridDrift.Formats.Zarr.DecodedChunks.Budget = 3 * 3 * 13 * 72 * 4; // three chunks
+        try
+        {
+            var failures = new System.Collections.Concurrent.ConcurrentBag<string>();
+            Parallel.For(0, 4, new ParallelOptions { MaxDegreeOfParallelism = 4 }, worker =>
+            {
+                using var reader = DatasetFiles.Open(store);
+                var tcwv = reader.RequireVariable("tcwv");
+                var frame = new float[Rows * Columns];
+                for (int round = 0; round < 30; round++)
+                    for (int t = (worker + round) % Times, n = 0; n < Times; t = (t + 1) % Times, n++)
+                    {
+                        reader.ReadRaw(tcwv, [t, 0, 0], [1, Rows, Columns], System.Runtime.InteropServices.MemoryMarshal.AsBytes(frame.AsSpan()));
+                        for (int k = 0; k < frame.Length; k++)
+                            if (!frame[k].Equals((float)expected[t * Rows * Columns + k])) { failures.Add($"frame {t}, cell {k}"); break; }
+                    }
+            });
+            Assert.Empty(failures);
+        }
+        finally { GridDrift.Formats.Zarr.DecodedChunks.Budget = saved; }
+    }
+}

@@ -6,7 +6,10 @@ namespace GridDrift.Formats.Grib;
 
 /// <summary>One GRIB message as the index knows it: where it is and what it holds, values not decoded.</summary>
 internal sealed record GribMessage(long Offset, int Length, int Edition, string ShortName, string VariableName, string? CfName, string? LongName,
-    string? Units, long? ParamId, string LevelType, double Level, DateTime Valid, string GridKey);
+    string? Units, long? ParamId, string LevelType, double Level, DateTime Valid, string GridKey, bool Bitmap);
+
+/// <summary>What ecCodes names a parameter (its concept keys), worked out once per parameter of a file: each takes it milliseconds.</summary>
+internal sealed record GribParameter(string ShortName, string VariableName, string? CfName, string? LongName, string? Units, long? ParamId);
 
 /// <summary>A grid the messages share: its rows' latitudes and columns' longitudes in the order presented (columns west to east).</summary>
 internal sealed record GribGrid(string Key, string Kind, int Rows, int Columns, double[] Latitudes, double[] Longitudes, bool ReverseColumns, string? Unreadable);
@@ -41,60 +44,78 @@ internal sealed class GribIndex
     /// <summary>Whether the file starts with a GRIB message (within its first 4 KiB: bulletin headers may come first).</summary>
     public static bool LooksLikeGrib(ReadOnlySpan<byte> head) => head.IndexOf("GRIB"u8) >= 0;
 
-    static GribIndex Build(string path)
+    static unsafe GribIndex Build(string path)
     {
-        var messages = new List<GribMessage>();
-        var grids = new Dictionary<string, GribGrid>(StringComparer.Ordinal);
-        using var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16);
-        long length = stream.Length, at = 0;
-        var head = new byte[16];
-        while (at < length)
+        using var file = GribFile.Open(path);
+        // the messages' places from their headers alone (section 0: "GRIB", edition, total length), then each decoded on any core
+        var places = new List<(long Offset, int Length, int Edition)>();
+        long at = 0;
+        while (at < file.Length)
         {
-            long start = Find(stream, at, length);
+            long start = Find(file, at);
             if (start < 0) break;
-            stream.Position = start;
-            if (stream.ReadAtLeast(head, 16, throwOnEndOfStream: false) < 16) throw new InvalidDataException($"message at byte {start} is cut short");
+            if (start + 16 > file.Length) throw new InvalidDataException($"message at byte {start} is cut short");
+            var head = file.Span(start, 16);
             int edition = head[7];
             long size = edition switch
             {
                 1 => (head[4] << 16) | (head[5] << 8) | head[6],
-                2 => (long)BinaryPrimitives.ReadUInt64BigEndian(head.AsSpan(8)),
+                2 => (long)BinaryPrimitives.ReadUInt64BigEndian(head[8..]),
                 _ => throw new InvalidDataException($"message at byte {start} says GRIB edition {edition}; editions 1 and 2 are read"),
             };
             if (edition == 1 && (size & 0x800000) != 0) throw new InvalidDataException($"message at byte {start} is a GRIB 1 message over 8 MB (the large-message length coding is not read)");
-            if (size < 16 || start + size > length || size > int.MaxValue) throw new InvalidDataException($"message at byte {start} claims {size} bytes; the file has {length - start} from there");
-            var bytes = new byte[size];
-            stream.Position = start;
-            stream.ReadExactly(bytes);
-            if (!bytes.AsSpan((int)size - 4).SequenceEqual("7777"u8)) throw new InvalidDataException($"message at byte {start} does not end in '7777' (cut or damaged)");
-            messages.Add(Describe(bytes, start, edition, grids, $"{Path.GetFileName(path)}, message {messages.Count + 1}"));
+            if (size < 16 || start + size > file.Length || size > int.MaxValue) throw new InvalidDataException($"message at byte {start} claims {size} bytes; the file has {file.Length - start} from there");
+            if (!file.Span(start + size - 4, 4).SequenceEqual("7777"u8)) throw new InvalidDataException($"message at byte {start} does not end in '7777' (cut or damaged)");
+            places.Add((start, (int)size, edition));
             at = start + size;
         }
-        if (messages.Count == 0) throw new InvalidDataException("holds no GRIB message");
-        return new GribIndex { Messages = messages, Grids = grids, Editions = messages.Select(m => m.Edition).ToHashSet() };
+        if (places.Count == 0) throw new InvalidDataException("holds no GRIB message");
+        var grids = new ConcurrentDictionary<string, Lazy<GribGrid>>(StringComparer.Ordinal);
+        var parameters = new ConcurrentDictionary<string, Lazy<GribParameter>>(StringComparer.Ordinal);
+        var messages = new GribMessage[places.Count];
+        string name = Path.GetFileName(path);
+        try
+        {
+            Parallel.For(0, places.Count, new ParallelOptions { MaxDegreeOfParallelism = Environment.ProcessorCount }, k =>
+            {
+                var (offset, length, edition) = places[k];
+                using var m = new Eccodes.Message(file.Start + offset, length, $"{name}, message {k + 1}");
+                messages[k] = Describe(m, offset, length, edition, grids, parameters);
+            });
+        }
+        catch (AggregateException e) when (e.InnerExceptions.All(x => x is InvalidDataException or FormatException))
+        {
+            throw new InvalidDataException(e.InnerExceptions[0].Message, e.InnerExceptions[0]);
+        }
+        return new GribIndex
+        {
+            Messages = messages,
+            Grids = grids.ToDictionary(g => g.Key, g => g.Value.Value, StringComparer.Ordinal),
+            Editions = messages.Select(m => m.Edition).ToHashSet(),
+        };
     }
 
-    static long Find(FileStream stream, long from, long length)
+    static unsafe long Find(GribFile file, long from)
     {
-        var buffer = new byte[1 << 16];
-        for (long at = from; at < length; at += buffer.Length - 3)
+        const int Window = 1 << 20;
+        for (long at = from; at < file.Length; at += Window - 3)
         {
-            stream.Position = at;
-            int n = stream.ReadAtLeast(buffer, buffer.Length, throwOnEndOfStream: false);
-            int found = buffer.AsSpan(0, n).IndexOf("GRIB"u8);
+            int n = (int)Math.Min(Window, file.Length - at);
+            int found = file.Span(at, n).IndexOf("GRIB"u8);
             if (found >= 0) return at + found;
-            if (n < buffer.Length) break;
+            if (at + n >= file.Length) break;
         }
         return -1;
     }
 
-    static GribMessage Describe(byte[] bytes, long offset, int edition, Dictionary<string, GribGrid> grids, string where)
+    static GribMessage Describe(Eccodes.Message m, long offset, int length, int edition,
+        ConcurrentDictionary<string, Lazy<GribGrid>> grids, ConcurrentDictionary<string, Lazy<GribParameter>> parameters)
     {
-        using var m = new Eccodes.Message(bytes, where);
-        string shortName = m.Text("shortName") ?? "unknown";
-        string? cfVarName = m.Text("cfVarName");
-        string name = cfVarName is { Length: > 0 } and not "unknown" and not "~" ? cfVarName : shortName;
-        string? cfName = m.Text("cfName") is { Length: > 0 } cf and not "unknown" and not "~" ? cf : null;
+        // the keys a parameter's concepts depend on, cheap to read: the concepts are looked up once for each distinct set
+        string identity = string.Join("|", edition, m.LongOrNull("centre"), m.LongOrNull("discipline"), m.LongOrNull("parameterCategory"), m.LongOrNull("parameterNumber"),
+            m.LongOrNull("table2Version"), m.LongOrNull("indicatorOfParameter"), m.LongOrNull("typeOfFirstFixedSurface"), m.LongOrNull("indicatorOfTypeOfLevel"),
+            m.LongOrNull("productDefinitionTemplateNumber"), m.LongOrNull("localDefinitionNumber"), m.LongOrNull("typeOfStatisticalProcessing"));
+        var parameter = parameters.GetOrAdd(identity, _ => new Lazy<GribParameter>(() => Parameter(m))).Value;
         string levelType = m.Text("typeOfLevel") ?? "unknown";
         double level = m.Has("level") ? m.Double("level") : 0;
         long date = m.Long("validityDate"), time = m.Long("validityTime");
@@ -106,9 +127,20 @@ internal sealed class GribIndex
             Key(m, "latitudeOfFirstGridPointInDegrees"), Key(m, "latitudeOfLastGridPointInDegrees"),
             Key(m, "longitudeOfFirstGridPointInDegrees"), Key(m, "longitudeOfLastGridPointInDegrees"),
             m.LongOrNull("iScansNegatively"), m.LongOrNull("jScansPositively"), m.LongOrNull("jPointsAreConsecutive"));
-        if (!grids.ContainsKey(gridKey)) grids[gridKey] = Grid(m, gridKey, gridType, ni, nj);
+        _ = grids.GetOrAdd(gridKey, _ => new Lazy<GribGrid>(() => Grid(m, gridKey, gridType, ni, nj))).Value; // while this message's handle lives
+        return new GribMessage(offset, length, edition, parameter.ShortName, parameter.VariableName, parameter.CfName, parameter.LongName, parameter.Units, parameter.ParamId,
+            levelType, level, valid, gridKey, m.LongOrNull("bitmapPresent") == 1);
+    }
+
+    static GribParameter Parameter(Eccodes.Message m)
+    {
+        string shortName = m.Text("shortName") ?? "unknown";
+        string? cfVarName = m.Text("cfVarName");
+        string name = cfVarName is { Length: > 0 } and not "unknown" and not "~" ? cfVarName : shortName;
+        string? cfName = m.Text("cfName") is { Length: > 0 } cf and not "unknown" and not "~" ? cf : null;
         string? units = m.Text("units") is { Length: > 0 } u and not "unknown" and not "~" ? u.Replace("**", "") : null;
-        return new GribMessage(offset, bytes.Length, edition, shortName, name, cfName, m.Text("name"), units, m.LongOrNull("paramId"), levelType, level, valid, gridKey);
+        // ecCodes' long name and parameter id are left out: each concept costs 50-70 ms of definitions the first time it is asked for
+        return new GribParameter(shortName, name, cfName, null, units, null);
     }
 
     static string Key(Eccodes.Message m, string key) => m.Has(key) ? m.Double(key).ToString("R", CultureInfo.InvariantCulture) : "";

@@ -23,6 +23,7 @@ internal sealed class GribReader : IDatasetReader
     sealed record DataVariable(GribGrid Grid, DateTime[] Times, double[]? Levels, Dictionary<(int Time, int Level), GribMessage> Slots);
 
     readonly GribIndex _index;
+    readonly Microsoft.Win32.SafeHandles.SafeFileHandle _file;
     readonly Dictionary<NcVariable, DataVariable> _data = new(ReferenceEqualityComparer.Instance);
     readonly Dictionary<NcVariable, double[]> _coordinates = new(ReferenceEqualityComparer.Instance);
 
@@ -32,10 +33,11 @@ internal sealed class GribReader : IDatasetReader
     public IReadOnlyList<NcAttribute> Attributes { get; }
     public IReadOnlyList<NcVariable> Variables { get; }
 
-    GribReader(string path, GribIndex index)
+    GribReader(string path, GribIndex index, Microsoft.Win32.SafeHandles.SafeFileHandle file)
     {
         Path = path;
         _index = index;
+        _file = file;
         var editions = index.Editions.Order().ToList();
         Format = editions.Count == 1 ? $"GRIB edition {editions[0]}" : "GRIB editions " + string.Join(" and ", editions);
         Attributes = [NcAttribute.Text("source", $"GRIB edition {string.Join(" and ", editions)}, decoded by ecCodes")];
@@ -167,13 +169,22 @@ internal sealed class GribReader : IDatasetReader
     public static GribReader Open(string path)
     {
         if (!Eccodes.Available) throw new BadInputException(path, null, Eccodes.Missing);
+        Microsoft.Win32.SafeHandles.SafeFileHandle? file = null;
         try
         {
-            return new GribReader(path, GribIndex.Of(path));
+            var index = GribIndex.Of(path);
+            file = File.OpenHandle(path, FileMode.Open, FileAccess.Read, FileShare.Read);
+            return new GribReader(path, index, file);
         }
         catch (InvalidDataException e)
         {
+            file?.Dispose();
             throw new BadInputException(path, null, e.Message, e);
+        }
+        catch
+        {
+            file?.Dispose();
+            throw;
         }
     }
 
@@ -214,6 +225,11 @@ internal sealed class GribReader : IDatasetReader
                         target.Fill(float.NaN);
                         return;
                     }
+                    if (nj == rows && ni == columns && !data.Grid.ReverseColumns)
+                    {
+                        Decode(message, target);
+                        return;
+                    }
                     var field = System.Buffers.ArrayPool<float>.Shared.Rent(rows * columns);
                     try
                     {
@@ -246,16 +262,36 @@ internal sealed class GribReader : IDatasetReader
         }
     }
 
-    void Decode(GribMessage message, Span<float> target)
+    /// <summary>
+    /// Decodes one message into <paramref name="target"/>. The message is read into a pooled
+    /// buffer rather than decoded from a mapping: a message is read once, and faulting its pages
+    /// in cost more (2.4 against 1.3 ms for 1 M points here) than copying them.
+    /// </summary>
+    unsafe void Decode(GribMessage message, Span<float> target)
     {
-        var bytes = new byte[message.Length];
-        using (var handle = File.OpenHandle(Path, FileMode.Open, FileAccess.Read, FileShare.Read))
+        var bytes = System.Buffers.ArrayPool<byte>.Shared.Rent(message.Length);
+        var scratch = System.Buffers.ArrayPool<double>.Shared.Rent(target.Length);
+        try
         {
-            if (RandomAccess.Read(handle, bytes, message.Offset) != bytes.Length) throw new InvalidDataException($"message at byte {message.Offset} is cut short (the file changed?)");
+            int read = 0;
+            while (read < message.Length)
+            {
+                int n = RandomAccess.Read(_file, bytes.AsSpan(read, message.Length - read), message.Offset + read);
+                if (n == 0) throw new InvalidDataException($"message at byte {message.Offset} is cut short (the file changed?)");
+                read += n;
+            }
+            fixed (byte* start = bytes)
+            {
+                using var m = new Eccodes.Message(start, message.Length, $"message at byte {message.Offset}");
+                m.Values(target, scratch, message.Bitmap);
+            }
         }
-        using var m = new Eccodes.Message(bytes, $"message at byte {message.Offset}");
-        m.Values(target);
+        finally
+        {
+            System.Buffers.ArrayPool<double>.Shared.Return(scratch);
+            System.Buffers.ArrayPool<byte>.Shared.Return(bytes);
+        }
     }
 
-    public void Dispose() { }
+    public void Dispose() => _file.Dispose();
 }

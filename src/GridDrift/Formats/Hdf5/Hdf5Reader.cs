@@ -273,24 +273,8 @@ internal sealed class Hdf5Reader : IDatasetReader
 
     string? _fault;
 
-    const long ChunkGarbageLimit = 128L << 20;
-    static long _chunkGarbage;
-
-    /// <summary>
-    /// The HDF5 reader allocates each compressed chunk, its decompressed copy and each filter's
-    /// output afresh (about 2.5 × a frame for one-frame chunks with shuffle and deflate), and the
-    /// runtime collects large objects only when their budget, which grows with use, runs out: at
-    /// 3712 × 3712 that held 2 GB. Once about 128 MB of such buffers have been handed out, a
-    /// collection returns them; it finds few objects to trace (frames are plain arrays), so it
-    /// costs milliseconds, against the tens of milliseconds the frames took to decompress.
-    /// </summary>
-    static void ReleaseChunkBuffers(int bytesRead)
-    {
-        if (bytesRead < 1 << 20) return;
-        if (Interlocked.Add(ref _chunkGarbage, (long)bytesRead * 5 / 2) < ChunkGarbageLimit) return;
-        Interlocked.Exchange(ref _chunkGarbage, 0);
-        GC.Collect(2, GCCollectionMode.Forced, blocking: true);
-    }
+    /// <summary>The HDF5 reader allocates each compressed chunk, its decompressed copy and each filter's output afresh: about 2.5 × a frame for one-frame chunks with shuffle and deflate.</summary>
+    static void ReleaseChunkBuffers(int bytesRead) => ChunkGarbage.HandedOut((long)bytesRead * 5 / 2);
 
     static void ReadTyped(NativeDataset ds, NcType type, Span<byte> destination, Selection selection, ulong[] memoryDims)
     {

@@ -8,14 +8,19 @@ internal interface IByteCodec
 {
     string Name { get; }
 
-    /// <summary>The stage's input from its output; <paramref name="expected"/> is the decoded size when known, else −1.</summary>
-    byte[] Decode(byte[] encoded, int expected, string where);
+    /// <summary>Decodes into <paramref name="target"/>, which is exactly the decoded size (the last stage: a chunk's elements).</summary>
+    void DecodeInto(ReadOnlySpan<byte> encoded, Span<byte> target, string where);
+
+    /// <summary>Decodes to a new array of whatever size the data has (a stage before the last).</summary>
+    byte[] Decode(ReadOnlySpan<byte> encoded, string where);
 }
 
 /// <summary>
 /// The compressors of Zarr v2 (numcodecs' ids) and v3 (codec names): zlib and gzip by the
-/// runtime's own streams, zstd by ZstdSharp, numcodecs' lz4 (a 4-byte little-endian size, then an
-/// LZ4 block) by K4os.Compression.LZ4, blosc by the C library, crc32c checked and removed.
+/// runtime's own streams, zstd by the system's libzstd where there is one (else ZstdSharp),
+/// numcodecs' lz4 (a 4-byte little-endian size, then an LZ4 block) by K4os.Compression.LZ4,
+/// blosc by the C library, crc32c checked and removed. The last stage decodes straight into the
+/// chunk's buffer or the caller's frame.
 /// </summary>
 internal static class ByteCodecs
 {
@@ -31,26 +36,35 @@ internal static class ByteCodecs
         _ => null,
     };
 
+    static string Size(long n) => n.ToString(System.Globalization.CultureInfo.InvariantCulture);
+
     sealed class Deflated(string name, Func<Stream, Stream> open) : IByteCodec
     {
         public string Name => name;
 
-        public byte[] Decode(byte[] encoded, int expected, string where)
+        public unsafe void DecodeInto(ReadOnlySpan<byte> encoded, Span<byte> target, string where)
         {
-            using var input = new MemoryStream(encoded, writable: false);
-            using var inflater = open(input);
-            if (expected >= 0)
+            fixed (byte* pinned = encoded)
             {
-                var output = new byte[expected];
+                using var input = new UnmanagedMemoryStream(pinned, encoded.Length);
+                using var inflater = open(input);
                 int done = 0, n;
-                while (done < expected && (n = inflater.Read(output, done, expected - done)) > 0) done += n;
-                if (done != expected || inflater.ReadByte() >= 0)
-                    throw new InvalidDataException($"{where}: {name} data decodes to {(done == expected ? "more than" : done.ToString(System.Globalization.CultureInfo.InvariantCulture))} bytes, not {expected}");
-                return output;
+                while (done < target.Length && (n = inflater.Read(target[done..])) > 0) done += n;
+                if (done != target.Length || inflater.ReadByte() >= 0)
+                    throw new InvalidDataException($"{where}: {name} data decodes to {(done == target.Length ? "more than " + Size(done) : Size(done))} bytes, not {target.Length}");
             }
-            using var copy = new MemoryStream();
-            inflater.CopyTo(copy);
-            return copy.ToArray();
+        }
+
+        public unsafe byte[] Decode(ReadOnlySpan<byte> encoded, string where)
+        {
+            fixed (byte* pinned = encoded)
+            {
+                using var input = new UnmanagedMemoryStream(pinned, encoded.Length);
+                using var inflater = open(input);
+                using var copy = new MemoryStream();
+                inflater.CopyTo(copy);
+                return copy.ToArray();
+            }
         }
     }
 
@@ -58,16 +72,17 @@ internal static class ByteCodecs
     {
         public string Name => "zstd";
 
-        public byte[] Decode(byte[] encoded, int expected, string where)
+        public void DecodeInto(ReadOnlySpan<byte> encoded, Span<byte> target, string where)
+        {
+            if (NativeZstd.DecodeInto(encoded, target, where)) return;
+            using var decompressor = new ZstdSharp.Decompressor();
+            int n = decompressor.Unwrap(encoded, target);
+            if (n != target.Length) throw new InvalidDataException($"{where}: zstd data decodes to {n} bytes, not {target.Length}");
+        }
+
+        public byte[] Decode(ReadOnlySpan<byte> encoded, string where)
         {
             using var decompressor = new ZstdSharp.Decompressor();
-            if (expected >= 0)
-            {
-                var output = new byte[expected];
-                int n = decompressor.Unwrap(encoded, output, 0);
-                if (n != expected) throw new InvalidDataException($"{where}: zstd data decodes to {n} bytes, not {expected}");
-                return output;
-            }
             return decompressor.Unwrap(encoded).ToArray();
         }
     }
@@ -76,14 +91,25 @@ internal static class ByteCodecs
     {
         public string Name => "lz4";
 
-        public byte[] Decode(byte[] encoded, int expected, string where)
+        static int Declared(ReadOnlySpan<byte> encoded, string where)
         {
             if (encoded.Length < 4) throw new InvalidDataException($"{where}: an lz4 chunk of {encoded.Length} bytes has no size header");
             int size = BinaryPrimitives.ReadInt32LittleEndian(encoded);
-            if (size < 0 || (expected >= 0 && size != expected)) throw new InvalidDataException($"{where}: the lz4 header says {size} bytes, not {expected}");
-            var output = new byte[size];
-            int n = K4os.Compression.LZ4.LZ4Codec.Decode(encoded, 4, encoded.Length - 4, output, 0, size);
+            return size >= 0 ? size : throw new InvalidDataException($"{where}: the lz4 header says {size} bytes");
+        }
+
+        public void DecodeInto(ReadOnlySpan<byte> encoded, Span<byte> target, string where)
+        {
+            int size = Declared(encoded, where);
+            if (size != target.Length) throw new InvalidDataException($"{where}: the lz4 header says {size} bytes, not {target.Length}");
+            int n = K4os.Compression.LZ4.LZ4Codec.Decode(encoded[4..], target);
             if (n != size) throw new InvalidDataException($"{where}: lz4 data decodes to {n} bytes, not {size}");
+        }
+
+        public byte[] Decode(ReadOnlySpan<byte> encoded, string where)
+        {
+            var output = GC.AllocateUninitializedArray<byte>(Declared(encoded, where));
+            DecodeInto(encoded, output, where);
             return output;
         }
     }
@@ -92,10 +118,12 @@ internal static class ByteCodecs
     {
         public string Name => "blosc";
 
-        public byte[] Decode(byte[] encoded, int expected, string where)
+        public void DecodeInto(ReadOnlySpan<byte> encoded, Span<byte> target, string where) => BloscLibrary.DecodeInto(encoded, target, where);
+
+        public byte[] Decode(ReadOnlySpan<byte> encoded, string where)
         {
-            var output = BloscLibrary.Decode(encoded, where);
-            if (expected >= 0 && output.Length != expected) throw new InvalidDataException($"{where}: blosc data decodes to {output.Length} bytes, not {expected}");
+            var output = GC.AllocateUninitializedArray<byte>(BloscLibrary.DecodedSize(encoded, where));
+            BloscLibrary.DecodeInto(encoded, output, where);
             return output;
         }
     }
@@ -104,13 +132,22 @@ internal static class ByteCodecs
     {
         public string Name => "crc32c";
 
-        public byte[] Decode(byte[] encoded, int expected, string where)
+        static ReadOnlySpan<byte> Body(ReadOnlySpan<byte> encoded, string where)
         {
             if (encoded.Length < 4) throw new InvalidDataException($"{where}: {encoded.Length} bytes cannot end in a 4-byte checksum");
-            var body = encoded.AsSpan(0, encoded.Length - 4);
-            uint stored = BinaryPrimitives.ReadUInt32LittleEndian(encoded.AsSpan(encoded.Length - 4));
+            var body = encoded[..^4];
+            uint stored = BinaryPrimitives.ReadUInt32LittleEndian(encoded[^4..]);
             if (Crc32c.Of(body) != stored) throw new InvalidDataException($"{where}: CRC-32C checksum does not match (the chunk is damaged)");
-            return body.ToArray();
+            return body;
         }
+
+        public void DecodeInto(ReadOnlySpan<byte> encoded, Span<byte> target, string where)
+        {
+            var body = Body(encoded, where);
+            if (body.Length != target.Length) throw new InvalidDataException($"{where} holds {body.Length} bytes; its chunk shape needs {target.Length}");
+            body.CopyTo(target);
+        }
+
+        public byte[] Decode(ReadOnlySpan<byte> encoded, string where) => Body(encoded, where).ToArray();
     }
 }

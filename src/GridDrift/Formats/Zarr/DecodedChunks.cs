@@ -1,53 +1,128 @@
+using System.Buffers;
 using System.Collections.Concurrent;
 
 namespace GridDrift.Formats.Zarr;
 
 /// <summary>
 /// Decoded chunks shared by every reader of the process: a chunk that holds several frames is
-/// decoded once, by the first worker that needs it, while the others wait for it, and stays while
-/// it is among the most recently used within the budget (a frame's chunks are never evicted while
-/// the budget holds at least two of them). Keys include the stored object's version, so a
-/// rewritten chunk is decoded afresh.
+/// decoded once, by the first worker that needs it (the others wait for it), and the next chunk
+/// along time is decoded ahead on another core while the workers use this one. Chunks stay while
+/// they are among the most recently used within 128 MB (at least the last two); keys include the
+/// stored object's version, so a rewritten chunk is decoded afresh. Chunk buffers come from the
+/// shared array pool and go back to it once a chunk is evicted and no reader holds it: on this
+/// machine faulting in fresh pages for every 30 MB chunk cost more than decoding it.
 /// </summary>
 internal static class DecodedChunks
 {
-    const long Budget = 512L << 20;
+    /// <summary>The bytes of decoded chunks kept (128 MB); tests lower it to make eviction happen under load.</summary>
+    internal static long Budget = 128L << 20;
 
-    sealed class Entry(Func<byte[]> decode)
+    internal sealed class Entry(Action<Span<byte>> decode, int size)
     {
-        public readonly Lazy<byte[]> Bytes = new(decode, LazyThreadSafetyMode.ExecutionAndPublication);
+        public readonly int Size = size;
+        public readonly Lazy<byte[]> Bytes = new(() =>
+        {
+            var buffer = ArrayPool<byte>.Shared.Rent(size);
+            try { decode(buffer.AsSpan(0, size)); }
+            catch
+            {
+                ArrayPool<byte>.Shared.Return(buffer);
+                throw;
+            }
+            return buffer;
+        }, LazyThreadSafetyMode.ExecutionAndPublication);
         public long LastUse;
+        public int Users;
+        public bool Evicted;
+    }
+
+    /// <summary>A reader's hold on a decoded chunk: its bytes stay valid until the lease is disposed.</summary>
+    public readonly struct Lease : IDisposable
+    {
+        readonly Entry _entry;
+
+        internal Lease(Entry entry) => _entry = entry;
+
+        public ReadOnlySpan<byte> Bytes => _entry.Bytes.Value.AsSpan(0, _entry.Size);
+
+        public void Dispose()
+        {
+            if (_entry is null) return; // the lease of a unit never written holds nothing
+            lock (Gate)
+            {
+                _entry.Users--;
+                if (_entry.Evicted && _entry.Users == 0) ArrayPool<byte>.Shared.Return(_entry.Bytes.Value);
+            }
+        }
     }
 
     static readonly ConcurrentDictionary<string, Entry> Entries = new(StringComparer.Ordinal);
     static readonly object Gate = new();
     static long _clock, _held;
 
-    public static byte[] Get(string key, int size, Func<byte[]> decode)
+    /// <summary>The chunk under <paramref name="key"/>, decoded by <paramref name="decode"/> into <paramref name="size"/> bytes unless held already.</summary>
+    public static Lease Get(string key, int size, Action<Span<byte>> decode)
     {
-        var entry = Entries.GetOrAdd(key, _ => new Entry(decode));
-        byte[] bytes;
-        try { bytes = entry.Bytes.Value; }
+        Entry entry;
+        while (true)
+        {
+            entry = Add(key, size, decode);
+            lock (Gate)
+            {
+                // evicted between being found and being held: its buffer may be back in the pool, so the chunk is added afresh
+                if (entry.Evicted) continue;
+                entry.Users++;
+                entry.LastUse = ++_clock;
+                break;
+            }
+        }
+        try { _ = entry.Bytes.Value; }
         catch
         {
+            lock (Gate) entry.Users--;
             Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry)); // a failed decode is not remembered: the next reader reports it again
             throw;
         }
-        lock (Gate)
-        {
-            if (entry.LastUse == 0) _held += size;
-            entry.LastUse = ++_clock;
-            if (_held > Budget) Evict(size);
-        }
-        return bytes;
+        return new Lease(entry);
     }
 
-    static void Evict(int size)
+    /// <summary>Starts decoding a chunk on the thread pool unless it is held or under way; a fault is left for the reader that needs the chunk.</summary>
+    public static void Ahead(string key, int size, Action<Span<byte>> decode)
     {
-        foreach (var (key, entry) in Entries.Where(e => e.Value.LastUse > 0).OrderBy(e => e.Value.LastUse).ToList())
+        if (Entries.ContainsKey(key)) return;
+        var entry = Add(key, size, decode);
+        ThreadPool.UnsafeQueueUserWorkItem(_ =>
         {
-            if (_held <= Budget || _held <= 2L * size) return;
-            if (Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry))) _held -= entry.Bytes.IsValueCreated ? entry.Bytes.Value.Length : 0;
+            try { _ = entry.Bytes.Value; }
+            catch (Exception) { Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry)); }
+        }, null);
+    }
+
+    static Entry Add(string key, int size, Action<Span<byte>> decode)
+    {
+        bool added = false;
+        var entry = Entries.GetOrAdd(key, _ => { added = true; return new Entry(decode, size); });
+        if (!added) return entry;
+        lock (Gate)
+        {
+            entry.LastUse = ++_clock;
+            _held += size;
+            if (_held > Budget) Evict();
+        }
+        return entry;
+    }
+
+    /// <summary>Drops the least recently used chunks beyond the budget, keeping the last two; a chunk still read or still decoding returns its buffer later, or to the collector.</summary>
+    static void Evict()
+    {
+        var oldest = Entries.ToArray().OrderBy(e => e.Value.LastUse).ToList(); // ToArray takes a consistent snapshot
+        for (int k = 0; k < oldest.Count - 2 && _held > Budget; k++)
+        {
+            var (key, entry) = oldest[k];
+            if (!Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry))) continue;
+            _held -= entry.Size;
+            entry.Evicted = true;
+            if (entry.Users == 0 && entry.Bytes.IsValueCreated) ArrayPool<byte>.Shared.Return(entry.Bytes.Value);
         }
     }
 }

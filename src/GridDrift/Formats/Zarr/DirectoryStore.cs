@@ -15,6 +15,30 @@ internal sealed class DirectoryStore(string root) : IByteStore
         catch (DirectoryNotFoundException) { return null; }
     }
 
+    public byte[]? Rent(string key, out int length)
+    {
+        length = 0;
+        Microsoft.Win32.SafeHandles.SafeFileHandle handle;
+        try { handle = File.OpenHandle(PathOf(key), FileMode.Open, FileAccess.Read, FileShare.Read); }
+        catch (FileNotFoundException) { return null; }
+        catch (DirectoryNotFoundException) { return null; }
+        using (handle)
+        {
+            long size = RandomAccess.GetLength(handle);
+            if (size > int.MaxValue) throw new InvalidDataException($"'{key}' has {size} bytes, more than a chunk can");
+            var buffer = System.Buffers.ArrayPool<byte>.Shared.Rent((int)size);
+            int done = 0;
+            while (done < size)
+            {
+                int n = RandomAccess.Read(handle, buffer.AsSpan(done, (int)size - done), done);
+                if (n == 0) break;
+                done += n;
+            }
+            length = done;
+            return buffer;
+        }
+    }
+
     public byte[]? ReadRange(string key, long offset, int length)
     {
         string path = PathOf(key);

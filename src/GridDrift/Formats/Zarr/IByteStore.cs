@@ -14,6 +14,12 @@ internal interface IByteStore
     byte[]? Read(string key);
 
     /// <summary>
+    /// The whole object in a buffer rented from <see cref="System.Buffers.ArrayPool{T}.Shared"/>
+    /// (its first <paramref name="length"/> bytes), which the caller returns; null when absent.
+    /// </summary>
+    byte[]? Rent(string key, out int length);
+
+    /// <summary>
     /// <paramref name="length"/> bytes from <paramref name="offset"/> (a negative offset counts
     /// from the end), or null when the key is absent; throws when the object is shorter.
     /// </summary>

@@ -113,6 +113,21 @@ internal sealed class ZarrReader : IDatasetReader
             if (d < 0) break;
             at[d]++;
         }
+        // a read of exactly one whole chunk (one-frame chunks, frame by frame): decoded straight into the destination, not cached
+        bool wholeChunk = units.Count == 1 && array.Shards is null && destination.Length == array.UnitBytes;
+        for (int d = 0; d < rank && wholeChunk; d++) wholeChunk = start[d] == units[0][d] * unit[d];
+        if (wholeChunk)
+        {
+            try
+            {
+                if (!DecodeStored(array, array.ChunkKey(units[0]), destination)) FillUnit(array, destination);
+                return;
+            }
+            catch (InvalidDataException e)
+            {
+                throw new BadInputException(Path, variable.Name, e.Message, e);
+            }
+        }
         var startCopy = start.ToArray();
         var countCopy = count.ToArray();
         try
@@ -145,7 +160,8 @@ internal sealed class ZarrReader : IDatasetReader
     {
         int rank = u.Length, size = array.Type.Size;
         var unit = array.UnitShape;
-        var data = Unit(array, u);
+        using var lease = Unit(array, u, out var filled);
+        var data = filled ?? lease.Bytes;
         // the overlap of the unit and the hyperslab, in array coordinates
         var lo = new long[rank];
         var hi = new long[rank];
@@ -156,7 +172,7 @@ internal sealed class ZarrReader : IDatasetReader
         }
         if (rank == 0)
         {
-            data.AsSpan(0, size).CopyTo(destination);
+            data[..size].CopyTo(destination);
             return;
         }
         int run = checked((int)(hi[rank - 1] - lo[rank - 1]) * size);
@@ -169,7 +185,7 @@ internal sealed class ZarrReader : IDatasetReader
                 source = source * unit[d] + (at[d] - u[d] * unit[d]);
                 target = target * count[d] + (at[d] - start[d]);
             }
-            data.AsSpan(checked((int)(source * size)), run).CopyTo(destination.Slice(checked((int)(target * size)), run));
+            data.Slice(checked((int)(source * size)), run).CopyTo(destination.Slice(checked((int)(target * size)), run));
             int k = rank - 2;
             while (k >= 0 && at[k] == hi[k] - 1) { at[k] = lo[k]; k--; }
             if (k < 0) break;
@@ -177,17 +193,38 @@ internal sealed class ZarrReader : IDatasetReader
         }
     }
 
-    /// <summary>Unit <paramref name="u"/> decoded: little-endian elements in row-major order over the whole unit shape.</summary>
-    byte[] Unit(ZarrArray array, long[] u)
+    /// <summary>
+    /// Unit <paramref name="u"/> decoded: little-endian elements in row-major order over the whole
+    /// unit shape, held by the lease, or in <paramref name="filled"/> for a unit never written. The
+    /// next unit along time is decoded ahead.
+    /// </summary>
+    DecodedChunks.Lease Unit(ZarrArray array, long[] u, out byte[]? filled)
+    {
+        if (u.Length > 0 && (u[0] + 1) * array.UnitShape[0] < array.Shape[0])
+        {
+            var next = (long[])u.Clone();
+            next[0]++;
+            if (Request(array, next) is { } ahead) DecodedChunks.Ahead(ahead.Key, array.UnitBytes, ahead.Decode);
+        }
+        filled = null;
+        if (Request(array, u) is { } request) return DecodedChunks.Get(request.Key, array.UnitBytes, request.Decode);
+        filled = FillUnit(array, array.UnitBytes);
+        return default;
+    }
+
+    /// <summary>The cache key of a unit and how to decode it; null for a unit never written (the fill value).</summary>
+    (string Key, Action<Span<byte>> Decode)? Request(ZarrArray array, long[] u)
     {
         int bytes = array.UnitBytes;
         if (array.Shards is not { } shards)
         {
             string key = array.ChunkKey(u);
             string? version = _store.Version(key);
-            if (version is null) return FillUnit(array, bytes);
-            return DecodedChunks.Get(_store.Location + "\n" + key + "\n" + version, bytes,
-                () => Decode(_store.Read(key) ?? throw new InvalidDataException($"chunk '{key}' vanished while it was read"), array.Codecs, array.Type.BigEndian, array.Type.Size, bytes, key));
+            if (version is null) return null;
+            return (_store.Location + "\n" + key + "\n" + version, chunk =>
+            {
+                if (!DecodeStored(array, key, chunk)) throw new InvalidDataException($"chunk '{key}' vanished while it was read");
+            });
         }
         int rank = u.Length;
         var shard = new long[rank];
@@ -200,21 +237,23 @@ internal sealed class ZarrReader : IDatasetReader
         }
         string shardKey = array.ChunkKey(shard);
         string? shardVersion = _store.Version(shardKey);
-        if (shardVersion is null) return FillUnit(array, bytes);
+        if (shardVersion is null) return null;
         var index = ShardIndex(array, shards, shardKey, shardVersion);
         ulong offset = index[2 * local], length = index[2 * local + 1];
-        if (offset == ulong.MaxValue && length == ulong.MaxValue) return FillUnit(array, bytes);
+        if (offset == ulong.MaxValue && length == ulong.MaxValue) return null;
         if (length > int.MaxValue || offset > long.MaxValue) throw new InvalidDataException($"shard '{shardKey}': inner chunk {local} has an impossible extent");
         string where = $"shard '{shardKey}', inner chunk {local}";
-        return DecodedChunks.Get(_store.Location + "\n" + shardKey + "\n" + shardVersion + "\n" + local, bytes,
-            () => Decode(_store.ReadRange(shardKey, (long)offset, (int)length) ?? throw new InvalidDataException($"{where} vanished while it was read"),
-                shards.InnerCodecs, shards.InnerBigEndian && array.Type.Size > 1, array.Type.Size, bytes, where));
+        return (_store.Location + "\n" + shardKey + "\n" + shardVersion + "\n" + local, chunk =>
+        {
+            var encoded = _store.ReadRange(shardKey, (long)offset, (int)length) ?? throw new InvalidDataException($"{where} vanished while it was read");
+            Decode(encoded, shards.InnerCodecs, shards.InnerBigEndian && array.Type.Size > 1, array.Type.Size, chunk, where);
+        });
     }
 
     ulong[] ShardIndex(ZarrArray array, ShardLayout shards, string key, string version)
     {
         int entries = shards.InnerCount(array.ChunkShape), indexBytes = shards.IndexBytes(array.ChunkShape);
-        var raw = DecodedChunks.Get(_store.Location + "\n" + key + "\n" + version + "\nindex", indexBytes, () =>
+        using var raw = DecodedChunks.Get(_store.Location + "\n" + key + "\n" + version + "\nindex", indexBytes, target =>
         {
             var encoded = _store.ReadRange(key, shards.IndexAtEnd ? -indexBytes : 0, indexBytes) ?? throw new InvalidDataException($"shard '{key}' vanished while it was read");
             if (shards.IndexChecksum)
@@ -222,29 +261,60 @@ internal sealed class ZarrReader : IDatasetReader
                 uint stored = BinaryPrimitives.ReadUInt32LittleEndian(encoded.AsSpan(indexBytes - 4));
                 if (Crc32c.Of(encoded.AsSpan(0, indexBytes - 4)) != stored) throw new InvalidDataException($"shard '{key}': the index's CRC-32C checksum does not match");
             }
-            return encoded;
+            encoded.CopyTo(target);
         });
         var index = new ulong[2 * entries];
         for (int i = 0; i < index.Length; i++)
-            index[i] = shards.IndexBigEndian ? BinaryPrimitives.ReadUInt64BigEndian(raw.AsSpan(8 * i)) : BinaryPrimitives.ReadUInt64LittleEndian(raw.AsSpan(8 * i));
+            index[i] = shards.IndexBigEndian ? BinaryPrimitives.ReadUInt64BigEndian(raw.Bytes[(8 * i)..]) : BinaryPrimitives.ReadUInt64LittleEndian(raw.Bytes[(8 * i)..]);
         return index;
     }
 
-    static byte[] Decode(byte[] stored, IReadOnlyList<IByteCodec> codecs, bool bigEndian, int size, int bytes, string where)
+    /// <summary>Reads chunk <paramref name="key"/> into a pooled buffer and decodes it into <paramref name="target"/>; false when the store has no such chunk.</summary>
+    bool DecodeStored(ZarrArray array, string key, Span<byte> target)
     {
-        var data = stored;
-        for (int c = codecs.Count - 1; c >= 0; c--) data = codecs[c].Decode(data, c == 0 ? bytes : -1, where);
-        if (data.Length != bytes) throw new InvalidDataException($"{where} holds {data.Length} bytes; its chunk shape needs {bytes}");
-        if (bigEndian) RawValues.SwapInPlace(data, size);
-        return data;
+        var stored = _store.Rent(key, out int length);
+        if (stored is null) return false;
+        try { Decode(stored.AsSpan(0, length), array.Codecs, array.Type.BigEndian, array.Type.Size, target, key); }
+        finally { System.Buffers.ArrayPool<byte>.Shared.Return(stored); }
+        return true;
+    }
+
+    /// <summary>Undoes the bytes-to-bytes codecs (the last applied first), the first written straight into <paramref name="target"/>, then the byte order.</summary>
+    static void Decode(ReadOnlySpan<byte> stored, IReadOnlyList<IByteCodec> codecs, bool bigEndian, int size, Span<byte> target, string where)
+    {
+        if (codecs.Count == 0)
+        {
+            if (stored.Length != target.Length) throw new InvalidDataException($"{where} holds {stored.Length} bytes; its chunk shape needs {target.Length}");
+            stored.CopyTo(target);
+        }
+        else
+        {
+            byte[]? staged = null;
+            for (int c = codecs.Count - 1; c >= 1; c--)
+            {
+                staged = codecs[c].Decode(staged ?? stored, where);
+                ChunkGarbage.HandedOut(staged.Length);
+            }
+            codecs[0].DecodeInto(staged is null ? stored : staged, target, where);
+        }
+        if (bigEndian) RawValues.SwapInPlace(target, size);
     }
 
     static byte[] FillUnit(ZarrArray array, int bytes)
     {
         var data = new byte[bytes];
-        if (array.Fill.Any(b => b != 0))
-            for (int i = 0; i < bytes; i += array.Fill.Length) array.Fill.CopyTo(data, i);
+        FillUnit(array, data);
         return data;
+    }
+
+    static void FillUnit(ZarrArray array, Span<byte> target)
+    {
+        if (!array.Fill.Any(b => b != 0))
+        {
+            target.Clear();
+            return;
+        }
+        for (int i = 0; i < target.Length; i += array.Fill.Length) array.Fill.CopyTo(target[i..]);
     }
 
     public void Dispose() { }
