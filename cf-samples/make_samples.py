@@ -3,7 +3,9 @@ on coarse grids, for examples and first runs, not observations of any real atmos
 
     /usr/bin/python3 cf-samples/make_samples.py cf-samples
 
-needs Debian's python3-netcdf4 and python3-numpy. The output is deterministic (fixed seed).
+needs Debian's python3-netcdf4 and python3-numpy; the GRIB sample also python3-eccodes and the
+Zarr sample python3-zarr (each is skipped, saying so, where its module is missing). The output is
+deterministic (fixed seed).
 """
 import os
 import sys
@@ -200,4 +202,78 @@ with netCDF4.Dataset(os.path.join(out, "tb_geostationary_2031.nc"), "w", format=
         t[i] = 15 * i
         f = (235 + 10 * np.cos(8 * Y) + 3 * np.sin(10 * X - i / 2) + rng.normal(0, 0.5, (n, n))).astype("f4")
         tb[i] = np.ma.masked_where(~on_disk, f)
-print("wrote", sorted(f for f in os.listdir(out) if f.endswith(".nc")))
+
+# 6. The same invented total column water vapour as GRIB 2, as an archive delivers it: the first
+#    two days of sample 1 (6-hourly, validity time = reference time + step), with specific
+#    humidity on 850, 700 and 500 hPa; 16-bit simple packing, missing cells in a bitmap.
+try:
+    import eccodes
+except ImportError:
+    print("skipped tcwv_synthetic_2031.grib2: needs python3-eccodes")
+    eccodes = None
+if eccodes is not None:
+    with netCDF4.Dataset(os.path.join(out, "tcwv_synthetic_2031.nc")) as src, open(os.path.join(out, "tcwv_synthetic_2031.grib2"), "wb") as f:
+        tcwv = src["tcwv"][:16:2]  # 6-hourly, two days
+        lat = src["lat"][:]
+        for k in range(tcwv.shape[0]):
+            hour = 6 * k
+            for short, level_type, level in [("tcwv", "entireAtmosphere", 0), ("q", "isobaricInhPa", 850), ("q", "isobaricInhPa", 700), ("q", "isobaricInhPa", 500)]:
+                h = eccodes.codes_grib_new_from_samples("regular_ll_pl_grib2" if short == "q" else "regular_ll_sfc_grib2")
+                eccodes.codes_set_long(h, "Ni", 72)
+                eccodes.codes_set_long(h, "Nj", 36)
+                eccodes.codes_set(h, "latitudeOfFirstGridPointInDegrees", 87.5)
+                eccodes.codes_set(h, "latitudeOfLastGridPointInDegrees", -87.5)
+                eccodes.codes_set(h, "longitudeOfFirstGridPointInDegrees", 2.5)
+                eccodes.codes_set(h, "longitudeOfLastGridPointInDegrees", 357.5)
+                eccodes.codes_set(h, "iDirectionIncrementInDegrees", 5.0)
+                eccodes.codes_set(h, "jDirectionIncrementInDegrees", 5.0)
+                eccodes.codes_set_long(h, "jScansPositively", 0)
+                # reference times every 12 h, steps 0 and 6 h
+                eccodes.codes_set(h, "dataDate", 20310101 + (hour // 24))
+                eccodes.codes_set(h, "dataTime", (hour % 24) // 12 * 1200)
+                eccodes.codes_set(h, "stepRange", str(hour % 12))
+                eccodes.codes_set(h, "typeOfLevel", level_type)
+                if level_type == "isobaricInhPa":
+                    eccodes.codes_set(h, "level", level)
+                eccodes.codes_set(h, "shortName", short)
+                eccodes.codes_set_long(h, "bitsPerValue", 16)
+                field = tcwv[k][::-1]  # north to south
+                if short == "q":
+                    values = 0.0004 * np.ma.filled(field, 20.0) * (level / 1000.0) ** 3
+                    eccodes.codes_set_values(h, values.astype("f8").ravel())
+                else:
+                    eccodes.codes_set(h, "bitmapPresent", 1)
+                    eccodes.codes_set(h, "missingValue", 9999)
+                    eccodes.codes_set_values(h, np.ma.filled(field.astype("f8"), 9999).ravel())
+                eccodes.codes_write(h, f)
+                eccodes.codes_release(h)
+
+# 7. The same invented record as a Zarr v2 store, as analysis-ready copies are kept: sample 1's
+#    first five days, chunks of 8 frames, zlib, xarray's dimension names, consolidated metadata.
+try:
+    import numcodecs
+    import zarr
+except ImportError:
+    print("skipped tcwv_synthetic_2031.zarr: needs python3-zarr")
+    zarr = None
+if zarr is not None:
+    store = os.path.join(out, "tcwv_synthetic_2031.zarr")
+    with netCDF4.Dataset(os.path.join(out, "tcwv_synthetic_2031.nc")) as src:
+        root = zarr.open_group(store, mode="w")
+        root.attrs.update({k: src.getncattr(k) for k in src.ncattrs()})
+        root.attrs["history"] = "created by cf-samples/make_samples.py"
+        for name in ("time", "lat", "lon", "tcwv"):
+            var = src[name]
+            var.set_auto_mask(False)
+            data = var[:40] if name in ("time", "tcwv") else var[:]
+            if name == "tcwv":
+                data = np.where(data == var._FillValue, np.nan, data).astype("f4")
+            chunks = (8, 36, 72) if name == "tcwv" else data.shape
+            array = root.create_dataset(name, data=data, chunks=chunks, compressor=numcodecs.Zlib(level=6),
+                                        fill_value=np.nan if name == "tcwv" else None)
+            attrs = {k: var.getncattr(k) for k in var.ncattrs() if k not in ("_FillValue", "bounds")}
+            array.attrs.update({k: (v.item() if hasattr(v, "item") else v) for k, v in attrs.items()})
+            array.attrs["_ARRAY_DIMENSIONS"] = list(var.dimensions)
+    zarr.consolidate_metadata(store)
+
+print("wrote", sorted(f for f in os.listdir(out) if f.endswith((".nc", ".grib2", ".zarr"))))

@@ -247,11 +247,11 @@ internal static class RecipeRunner
             var saved = JsonNode.Parse(File.ReadAllText(checkpoint))!.AsObject();
             if ((string?)saved["fingerprint"] != fingerprint) return false;
             if (outputs.Any(o => !File.Exists(o))) return false;
-            var newestInput = inputs.Where(File.Exists).Select(File.GetLastWriteTimeUtc).DefaultIfEmpty(DateTime.MinValue).Max();
+            var newestInput = inputs.Where(Exists).Select(LastWrite).DefaultIfEmpty(DateTime.MinValue).Max();
             if (outputs.Select(File.GetLastWriteTimeUtc).Min() < newestInput) return false;
             // timestamps can lie (cp -p keeps an older one): where the step recorded its inputs' checksums, they must still hold
             if (saved["inputs_sha256"] is JsonObject sums)
-                foreach (var input in inputs.Where(File.Exists))
+                foreach (var input in inputs.Where(Exists))
                     if ((string?)sums[Path.GetFullPath(input)] is { } recorded && recorded != ChecksumCache.Sha256(input)) return false;
             summary = saved["summary"]?.DeepClone().AsObject() ?? new JsonObject();
             return true;
@@ -259,8 +259,21 @@ internal static class RecipeRunner
         catch (JsonException) { return false; }
     }
 
-    /// <summary>What tells, cheaply, that a file changed while the run read it (<see cref="FileStamp"/>).</summary>
-    static string Stamp(string file) => new FileInfo(file) is { Exists: true } info ? FileStamp.Of(info) : "absent";
+    /// <summary>What tells, cheaply, that a file changed while the run read it (<see cref="FileStamp"/>); for a folder store (Zarr), its files' count, total size and newest write.</summary>
+    static string Stamp(string file)
+    {
+        if (new FileInfo(file) is { Exists: true } info) return FileStamp.Of(info);
+        if (!Directory.Exists(file)) return "absent";
+        var files = new DirectoryInfo(file).EnumerateFiles("*", SearchOption.AllDirectories).ToList();
+        return $"{files.Count} files, {files.Sum(f => f.Length)} bytes, newest {files.Select(f => f.LastWriteTimeUtc.Ticks).DefaultIfEmpty(0).Max()}";
+    }
+
+    /// <summary>An input is a file, or a folder store (Zarr).</summary>
+    static bool Exists(string input) => File.Exists(input) || Directory.Exists(input);
+
+    /// <summary>When an input last changed: a folder store's newest file.</summary>
+    static DateTime LastWrite(string input) => File.Exists(input) ? File.GetLastWriteTimeUtc(input)
+        : Directory.EnumerateFiles(input, "*", SearchOption.AllDirectories).Select(File.GetLastWriteTimeUtc).DefaultIfEmpty(Directory.GetLastWriteTimeUtc(input)).Max();
 
     static string? Changed(string[] inputs, string[] before)
     {
@@ -275,7 +288,7 @@ internal static class RecipeRunner
         if (hashed.Length > 0)
         {
             var sums = new JsonObject();
-            foreach (var input in hashed.Where(File.Exists)) sums[Path.GetFullPath(input)] = ChecksumCache.Sha256(input);
+            foreach (var input in hashed.Where(Exists)) sums[Path.GetFullPath(input)] = ChecksumCache.Sha256(input);
             json["inputs_sha256"] = sums;
         }
         GridDrift.Outputs.AtomicFile.WriteAllText(path, json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));

@@ -139,6 +139,9 @@ internal sealed class GribIndex
         string name = cfVarName is { Length: > 0 } and not "unknown" and not "~" ? cfVarName : shortName;
         string? cfName = m.Text("cfName") is { Length: > 0 } cf and not "unknown" and not "~" ? cf : null;
         string? units = m.Text("units") is { Length: > 0 } u and not "unknown" and not "~" ? u.Replace("**", "") : null;
+        // ecCodes names some water contents in kg m-2 by their liquid-water-equivalent thickness, whose CF units are metres; the
+        // standard name that matches the units is the mass content itself (1 kg m-2 of water is 1 mm of it)
+        if (cfName is not null && units == "kg m-2" && cfName.StartsWith("lwe_thickness_of_", StringComparison.Ordinal)) cfName = cfName["lwe_thickness_of_".Length..];
         // ecCodes' long name and parameter id are left out: each concept costs 50-70 ms of definitions the first time it is asked for
         return new GribParameter(shortName, name, cfName, null, units, null);
     }
