@@ -1,4 +1,3 @@
-using System.Buffers;
 using System.Collections.Concurrent;
 
 namespace GridDrift.Formats.Zarr;
@@ -8,9 +7,11 @@ namespace GridDrift.Formats.Zarr;
 /// decoded once, by the first worker that needs it (the others wait for it), and the next chunk
 /// along time is decoded ahead on another core while the workers use this one. Chunks stay while
 /// they are among the most recently used within 128 MB (at least the last two); keys include the
-/// stored object's version, so a rewritten chunk is decoded afresh. Chunk buffers come from the
-/// shared array pool and go back to it once a chunk is evicted and no reader holds it: on this
-/// machine faulting in fresh pages for every 30 MB chunk cost more than decoding it.
+/// stored object's version, so a rewritten chunk is decoded afresh. A chunk's buffer is kept for
+/// the next chunk of the same size once the chunk is evicted and no reader holds it (at most four
+/// per size): on this machine faulting in fresh pages for every 30 MB chunk cost more than
+/// decoding it. (The shared array pool rounds sizes up to a power of two and keeps arrays per
+/// core, which doubled the memory held.)
 /// </summary>
 internal static class DecodedChunks
 {
@@ -22,11 +23,11 @@ internal static class DecodedChunks
         public readonly int Size = size;
         public readonly Lazy<byte[]> Bytes = new(() =>
         {
-            var buffer = ArrayPool<byte>.Shared.Rent(size);
+            var buffer = Spare(size);
             try { decode(buffer.AsSpan(0, size)); }
             catch
             {
-                ArrayPool<byte>.Shared.Return(buffer);
+                Release(buffer);
                 throw;
             }
             return buffer;
@@ -51,7 +52,7 @@ internal static class DecodedChunks
             lock (Gate)
             {
                 _entry.Users--;
-                if (_entry.Evicted && _entry.Users == 0) ArrayPool<byte>.Shared.Return(_entry.Bytes.Value);
+                if (_entry.Evicted && _entry.Users == 0) Release(_entry.Bytes.Value);
             }
         }
     }
@@ -112,17 +113,31 @@ internal static class DecodedChunks
         return entry;
     }
 
-    /// <summary>Drops the least recently used chunks beyond the budget, keeping the last two; a chunk still read or still decoding returns its buffer later, or to the collector.</summary>
+    /// <summary>Drops the least recently used decoded chunks beyond the budget, keeping the last two; a chunk still read returns its buffer when its last reader lets go.</summary>
     static void Evict()
     {
         var oldest = Entries.ToArray().OrderBy(e => e.Value.LastUse).ToList(); // ToArray takes a consistent snapshot
         for (int k = 0; k < oldest.Count - 2 && _held > Budget; k++)
         {
             var (key, entry) = oldest[k];
+            if (!entry.Bytes.IsValueCreated) continue; // still being decoded ahead: wanted soon
             if (!Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry))) continue;
             _held -= entry.Size;
             entry.Evicted = true;
-            if (entry.Users == 0 && entry.Bytes.IsValueCreated) ArrayPool<byte>.Shared.Return(entry.Bytes.Value);
+            if (entry.Users == 0 && entry.Bytes.IsValueCreated) Release(entry.Bytes.Value);
         }
+    }
+
+    static readonly ConcurrentDictionary<int, ConcurrentStack<byte[]>> Spares = new();
+
+    /// <summary>A buffer of exactly <paramref name="size"/> bytes: a spare one, else a new one left uninitialised (the decoder fills it).</summary>
+    static byte[] Spare(int size) =>
+        Spares.TryGetValue(size, out var stack) && stack.TryPop(out var buffer) ? buffer : GC.AllocateUninitializedArray<byte>(size);
+
+    static void Release(byte[] buffer)
+    {
+        var stack = Spares.GetOrAdd(buffer.Length, _ => new ConcurrentStack<byte[]>());
+        if (stack.Count < 4) stack.Push(buffer);
+        else ChunkGarbage.HandedOut(buffer.Length);
     }
 }

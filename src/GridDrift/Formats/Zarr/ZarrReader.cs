@@ -196,20 +196,24 @@ internal sealed class ZarrReader : IDatasetReader
     /// <summary>
     /// Unit <paramref name="u"/> decoded: little-endian elements in row-major order over the whole
     /// unit shape, held by the lease, or in <paramref name="filled"/> for a unit never written. The
-    /// next unit along time is decoded ahead.
+    /// next units along time are decoded ahead.
     /// </summary>
     DecodedChunks.Lease Unit(ZarrArray array, long[] u, out byte[]? filled)
     {
-        if (u.Length > 0 && (u[0] + 1) * array.UnitShape[0] < array.Shape[0])
+        filled = null;
+        // this unit first, so that adding the next one cannot evict it
+        var request = Request(array, u);
+        var lease = request is { } held ? DecodedChunks.Get(held.Key, array.UnitBytes, held.Decode) : default;
+        // the next units along time, one per core as far as the cache holds them, are decoded while the workers use this one
+        int depth = Math.Max(1, Math.Min(Environment.ProcessorCount, (int)(DecodedChunks.Budget / Math.Max(1, array.UnitBytes)) - 2));
+        for (int d = 1; d <= depth && u.Length > 0 && (u[0] + d) * array.UnitShape[0] < array.Shape[0]; d++)
         {
             var next = (long[])u.Clone();
-            next[0]++;
+            next[0] += d;
             if (Request(array, next) is { } ahead) DecodedChunks.Ahead(ahead.Key, array.UnitBytes, ahead.Decode);
         }
-        filled = null;
-        if (Request(array, u) is { } request) return DecodedChunks.Get(request.Key, array.UnitBytes, request.Decode);
-        filled = FillUnit(array, array.UnitBytes);
-        return default;
+        if (request is null) filled = FillUnit(array, array.UnitBytes);
+        return lease;
     }
 
     /// <summary>The cache key of a unit and how to decode it; null for a unit never written (the fill value).</summary>
