@@ -65,7 +65,7 @@ public class BadInputTests
         var bytes = new byte[length];
         new Random(length).NextBytes(bytes);
         File.WriteAllBytes(path, bytes);
-        AssertRefused(CliRun.Run("describe", path), path, "not a NetCDF file");
+        AssertRefused(CliRun.Run("describe", path), path, "not a NetCDF, GRIB or Zarr dataset");
     }
 
     [Theory]

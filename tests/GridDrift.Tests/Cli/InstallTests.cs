@@ -65,6 +65,7 @@ public class SkipMessageTests
         var needs = Enum.GetValues<Needs>().Where(n => n != Needs.None).ToList();
         Assert.Equal(needs.Order(), InteropFactAttribute.Remedies.Keys.Order());
         Assert.All(InteropFactAttribute.Remedies.Values, r =>
-            Assert.True(r.Contains("apt-get install ", StringComparison.Ordinal) || r.Contains("export GRIDDRIFT_SHARED=", StringComparison.Ordinal), r));
+            Assert.True(r.Contains("apt-get install ", StringComparison.Ordinal) || r.Contains("export GRIDDRIFT_SHARED=", StringComparison.Ordinal)
+                || r.Contains("npm ci --prefix ", StringComparison.Ordinal), r));
     }
 }
