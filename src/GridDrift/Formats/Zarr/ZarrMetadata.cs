@@ -60,7 +60,7 @@ internal sealed record ZarrMetadata(int Version, List<NcAttribute> Attributes, L
         }
     }
 
-    /// <summary>The children of a group: from the consolidated documents' keys where there are some, else the store's folders.</summary>
+    /// <summary>The children of a group: the store's folders under it that hold an array's or a group's document (consolidated or stored).</summary>
     static IEnumerable<string> Children(Func<string, JsonObject?> document, IByteStore store, string prefix, params string[] markers) =>
         store.Folders(prefix.TrimEnd('/')).Where(c => markers.Any(m => document(prefix + c + "/" + m) is not null));
 
