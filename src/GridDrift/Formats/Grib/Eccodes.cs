@@ -7,7 +7,7 @@ namespace GridDrift.Formats.Grib;
 /// ecCodes, the WMO-standard GRIB decoder maintained at ECMWF (Debian: libeccodes0 with
 /// libeccodes-data), through its C API, loaded the first time a GRIB file is opened. Without it a
 /// GRIB file is bad input naming the package. Each message gets its own handle, so messages are
-/// decoded on several threads at once, straight from a mapped file.
+/// decoded on several threads at once.
 /// </summary>
 internal static unsafe class Eccodes
 {
@@ -66,7 +66,7 @@ internal static unsafe class Eccodes
         public delegate* unmanaged<void*, byte*, double, int> SetDouble;
     }
 
-    /// <summary>A decoded view of one message, over bytes (a mapped file's) that outlive it; ecCodes does not copy them.</summary>
+    /// <summary>A decoded view of one message, over bytes that outlive it; ecCodes does not copy them.</summary>
     public sealed class Message : IDisposable
     {
         void* _handle;
