@@ -5,11 +5,11 @@ using System.Globalization;
 namespace GridDrift.Formats.Grib;
 
 /// <summary>One GRIB message as the index knows it: where it is and what it holds, values not decoded.</summary>
-internal sealed record GribMessage(long Offset, int Length, int Edition, string ShortName, string VariableName, string? CfName, string? LongName,
-    string? Units, long? ParamId, string LevelType, double Level, DateTime Valid, string GridKey, bool Bitmap);
+internal sealed record GribMessage(long Offset, int Length, int Edition, string ShortName, string VariableName, string? CfName,
+    string? Units, string LevelType, double Level, DateTime Valid, string GridKey, bool Bitmap);
 
 /// <summary>What ecCodes names a parameter (its concept keys), worked out once per parameter of a file: each takes it milliseconds.</summary>
-internal sealed record GribParameter(string ShortName, string VariableName, string? CfName, string? LongName, string? Units, long? ParamId);
+internal sealed record GribParameter(string ShortName, string VariableName, string? CfName, string? Units);
 
 /// <summary>A grid the messages share: its rows' latitudes and columns' longitudes in the order presented (columns west to east).</summary>
 internal sealed record GribGrid(string Key, string Kind, int Rows, int Columns, double[] Latitudes, double[] Longitudes, bool ReverseColumns, string? Unreadable);
@@ -89,13 +89,7 @@ internal sealed class GribIndex
                 var bytes = System.Buffers.ArrayPool<byte>.Shared.Rent(length);
                 try
                 {
-                    int read = 0;
-                    while (read < length)
-                    {
-                        int n = RandomAccess.Read(handle, bytes.AsSpan(read, length - read), offset + read);
-                        if (n == 0) throw new InvalidDataException($"message at byte {offset} is cut short");
-                        read += n;
-                    }
+                    if (!FileRanges.TryReadFully(handle, bytes.AsSpan(0, length), offset)) throw new InvalidDataException($"message at byte {offset} is cut short");
                     fixed (byte* start = bytes)
                     {
                         using var m = new Eccodes.Message(start, length, $"{name}, message {k + 1}");
@@ -150,7 +144,7 @@ internal sealed class GribIndex
             Key(m, "longitudeOfFirstGridPointInDegrees"), Key(m, "longitudeOfLastGridPointInDegrees"),
             m.LongOrNull("iScansNegatively"), m.LongOrNull("jScansPositively"), m.LongOrNull("jPointsAreConsecutive"));
         _ = grids.GetOrAdd(gridKey, _ => new Lazy<GribGrid>(() => Grid(m, gridKey, gridType, ni, nj))).Value; // while this message's handle lives
-        return new GribMessage(offset, length, edition, parameter.ShortName, parameter.VariableName, parameter.CfName, parameter.LongName, parameter.Units, parameter.ParamId,
+        return new GribMessage(offset, length, edition, parameter.ShortName, parameter.VariableName, parameter.CfName, parameter.Units,
             levelType, level, valid, gridKey, m.LongOrNull("bitmapPresent") == 1);
     }
 
@@ -165,7 +159,7 @@ internal sealed class GribIndex
         // standard name that matches the units is the mass content itself (1 kg m-2 of water is 1 mm of it)
         if (cfName is not null && units == "kg m-2" && cfName.StartsWith("lwe_thickness_of_", StringComparison.Ordinal)) cfName = cfName["lwe_thickness_of_".Length..];
         // ecCodes' long name and parameter id are left out: each concept costs 50-70 ms of definitions the first time it is asked for
-        return new GribParameter(shortName, name, cfName, null, units, null);
+        return new GribParameter(shortName, name, cfName, units);
     }
 
     static string Key(Eccodes.Message m, string key) => m.Has(key) ? m.Double(key).ToString("R", CultureInfo.InvariantCulture) : "";

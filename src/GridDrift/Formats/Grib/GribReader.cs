@@ -22,7 +22,6 @@ internal sealed class GribReader : IDatasetReader
 
     sealed record DataVariable(GribGrid Grid, DateTime[] Times, double[]? Levels, Dictionary<(int Time, int Level), GribMessage> Slots);
 
-    readonly GribIndex _index;
     readonly Microsoft.Win32.SafeHandles.SafeFileHandle _file;
     readonly Dictionary<NcVariable, DataVariable> _data = new(ReferenceEqualityComparer.Instance);
     readonly Dictionary<NcVariable, double[]> _coordinates = new(ReferenceEqualityComparer.Instance);
@@ -36,7 +35,6 @@ internal sealed class GribReader : IDatasetReader
     GribReader(string path, GribIndex index, Microsoft.Win32.SafeHandles.SafeFileHandle file)
     {
         Path = path;
-        _index = index;
         _file = file;
         var editions = index.Editions.Order().ToList();
         Format = editions.Count == 1 ? $"GRIB edition {editions[0]}" : "GRIB editions " + string.Join(" and ", editions);
@@ -67,9 +65,7 @@ internal sealed class GribReader : IDatasetReader
             var attributes = new List<NcAttribute>();
             if (first.Units is { } units) attributes.Add(NcAttribute.Text("units", units));
             if (first.CfName is { } cf) attributes.Add(NcAttribute.Text("standard_name", cf));
-            if (first.LongName is { } longName) attributes.Add(NcAttribute.Text("long_name", longName));
             attributes.Add(NcAttribute.Of("_FillValue", float.NaN));
-            if (first.ParamId is { } id) attributes.Add(NcAttribute.Text("parameter_id", id.ToString(System.Globalization.CultureInfo.InvariantCulture)));
             attributes.Add(NcAttribute.Text("parameter_short_name", first.ShortName));
             attributes.Add(NcAttribute.Text("level_type", first.LevelType));
             if (grid.Unreadable is { } why)
@@ -273,13 +269,8 @@ internal sealed class GribReader : IDatasetReader
         var scratch = System.Buffers.ArrayPool<double>.Shared.Rent(target.Length);
         try
         {
-            int read = 0;
-            while (read < message.Length)
-            {
-                int n = RandomAccess.Read(_file, bytes.AsSpan(read, message.Length - read), message.Offset + read);
-                if (n == 0) throw new InvalidDataException($"message at byte {message.Offset} is cut short (the file changed?)");
-                read += n;
-            }
+            if (!FileRanges.TryReadFully(_file, bytes.AsSpan(0, message.Length), message.Offset))
+                throw new InvalidDataException($"message at byte {message.Offset} is cut short (the file changed?)");
             fixed (byte* start = bytes)
             {
                 using var m = new Eccodes.Message(start, message.Length, $"message at byte {message.Offset}");

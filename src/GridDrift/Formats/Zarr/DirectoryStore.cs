@@ -27,14 +27,12 @@ internal sealed class DirectoryStore(string root) : IByteStore
             long size = RandomAccess.GetLength(handle);
             if (size > int.MaxValue) throw new InvalidDataException($"'{key}' has {size} bytes, more than a chunk can");
             var buffer = System.Buffers.ArrayPool<byte>.Shared.Rent((int)size);
-            int done = 0;
-            while (done < size)
+            if (!FileRanges.TryReadFully(handle, buffer.AsSpan(0, (int)size), 0))
             {
-                int n = RandomAccess.Read(handle, buffer.AsSpan(done, (int)size - done), done);
-                if (n == 0) break;
-                done += n;
+                System.Buffers.ArrayPool<byte>.Shared.Return(buffer);
+                throw new InvalidDataException($"'{key}' ended early");
             }
-            length = done;
+            length = (int)size;
             return buffer;
         }
     }
@@ -49,13 +47,7 @@ internal sealed class DirectoryStore(string root) : IByteStore
         if (at < 0 || at + length > size)
             throw new InvalidDataException($"'{key}' has {size} bytes; bytes [{at}, {at + length}) were asked for");
         var buffer = new byte[length];
-        int done = 0;
-        while (done < length)
-        {
-            int n = RandomAccess.Read(handle, buffer.AsSpan(done), at + done);
-            if (n == 0) throw new InvalidDataException($"'{key}' ended early");
-            done += n;
-        }
+        if (!FileRanges.TryReadFully(handle, buffer, at)) throw new InvalidDataException($"'{key}' ended early");
         return buffer;
     }
 

@@ -30,14 +30,14 @@ internal sealed class ZarrArray
 
     public int UnitBytes => UnitShape.Aggregate(Type.Readable ? Type.Size : 1, (n, d) => checked(n * d));
 
-    /// <summary>Key spelling of v2 stores: "0.1.2" (or with '/' when the array says so), "0" for a scalar.</summary>
-    public static Func<long[], string> V2Keys(string path, char separator) =>
-        index => path + "/" + (index.Length == 0 ? "0" : string.Join(separator, index));
+    /// <summary>Key spelling of v2 stores under <paramref name="prefix"/> ("" or "tb/"): "0.1.2" (or with '/' when the array says so), "0" for a scalar.</summary>
+    public static Func<long[], string> V2Keys(string prefix, char separator) =>
+        index => prefix + (index.Length == 0 ? "0" : string.Join(separator, index));
 
-    /// <summary>Key spelling of v3 stores: "default" is "c/0/1/2" ('/' or '.'), "v2" is "0.1.2".</summary>
-    public static Func<long[], string> V3Keys(string path, string encoding, char separator) => encoding == "v2"
-        ? V2Keys(path, separator)
-        : index => path + "/c" + (index.Length == 0 ? "" : separator + string.Join(separator, index));
+    /// <summary>Key spelling of v3 stores: "default" is "c/0/1/2" (or "c.0.1.2"), "v2" is "0.1.2".</summary>
+    public static Func<long[], string> V3Keys(string prefix, string encoding, char separator) => encoding == "v2"
+        ? V2Keys(prefix, separator)
+        : index => prefix + "c" + (index.Length == 0 ? "" : separator + string.Join(separator, index));
 }
 
 /// <summary>

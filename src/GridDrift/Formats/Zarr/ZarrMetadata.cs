@@ -101,14 +101,12 @@ internal sealed record ZarrMetadata(int Version, List<NcAttribute> Attributes, L
             Type = type,
             Fill = fill,
             Codecs = codecs,
-            ChunkKey = KeysUnder(keyPrefix, index => index.Length == 0 ? "0" : string.Join(separator, index)),
+            ChunkKey = ZarrArray.V2Keys(keyPrefix, separator),
             DimensionNames = names,
             Attributes = attrs,
             Unreadable = unreadable,
         };
     }
-
-    static Func<long[], string> KeysUnder(string prefix, Func<long[], string> spelling) => index => prefix + spelling(index);
 
     static ZarrMetadata V3(IByteStore store, JsonObject root, string name)
     {
@@ -171,9 +169,7 @@ internal sealed record ZarrMetadata(int Version, List<NcAttribute> Attributes, L
             Fill = fill,
             Codecs = pipeline.Codecs,
             Shards = pipeline.Shards,
-            ChunkKey = encoding == "v2"
-                ? KeysUnder(keyPrefix, index => index.Length == 0 ? "0" : string.Join(separator, index))
-                : KeysUnder(keyPrefix, index => "c" + (index.Length == 0 ? "" : separator + string.Join(separator, index))),
+            ChunkKey = ZarrArray.V3Keys(keyPrefix, encoding, separator),
             DimensionNames = names,
             Attributes = ZarrAttributes.From(meta["attributes"] as JsonObject, type.Type),
             Unreadable = unreadable,
