@@ -91,6 +91,7 @@ internal sealed record ZarrMetadata(int Version, List<NcAttribute> Attributes, L
             // xarray reads a v2 array's fill value as its _FillValue
             if (!attrs.Any(a => a.Name == "_FillValue")) attrs.Add(new NcAttribute("_FillValue", type.Type, ZarrAttributes.Typed(type.Type, [fillValue])));
         }
+        unreadable ??= TooLarge(chunks, type);
         var names = attributes?["_ARRAY_DIMENSIONS"] is JsonArray dims ? dims.Select(d => (string?)d).ToList() : null;
         if (names is not null && names.Count != shape.Length) throw new InvalidDataException($"array '{name}': _ARRAY_DIMENSIONS names {names.Count} dimensions for a shape of {shape.Length}");
         return new ZarrArray
@@ -158,6 +159,7 @@ internal sealed record ZarrMetadata(int Version, List<NcAttribute> Attributes, L
             if (fillNode is JsonValue v && v.TryGetValue<string>(out var text) && ZarrAttributes.RawBits(text, type.Size) is { } bits) fill = bits;
             else if (ZarrAttributes.Number(fillNode) is { } number) fill = ZarrAttributes.Element(type.Type, number);
         }
+        unreadable ??= TooLarge(pipeline.Shards?.InnerShape ?? chunks, type);
         var names = meta["dimension_names"] is JsonArray dims ? dims.Select(d => (string?)d).ToList() : null;
         if (names is not null && names.Count != shape.Length) throw new InvalidDataException($"array '{name}': dimension_names has {names.Count} names for a shape of {shape.Length}");
         return new ZarrArray
@@ -174,6 +176,13 @@ internal sealed record ZarrMetadata(int Version, List<NcAttribute> Attributes, L
             Attributes = ZarrAttributes.From(meta["attributes"] as JsonObject, type.Type),
             Unreadable = unreadable,
         };
+    }
+
+    /// <summary>Why a chunk cannot be decoded at once: more than 2 GB (a buffer's limit); null when it can.</summary>
+    static string? TooLarge(int[] unit, ZarrDataType type)
+    {
+        double bytes = unit.Aggregate((double)(type.Readable ? type.Size : 1), (n, d) => n * d);
+        return bytes > int.MaxValue ? $"a chunk of [{string.Join(", ", unit)}] elements ({bytes:0} bytes) is more than one read can hold (2 GB)" : null;
     }
 
     sealed record V3Pipeline(bool BigEndian, List<IByteCodec> Codecs, ShardLayout? Shards);
