@@ -1,4 +1,3 @@
-using System.Reflection;
 using System.Runtime.InteropServices;
 
 namespace GridDrift.Formats.Nc4;
@@ -28,12 +27,8 @@ internal static unsafe partial class NetCdfLibrary
         string? chosen = GridDriftSettings.Current.NetCdfLibrary;
         if (!string.IsNullOrEmpty(chosen) && !NativeLibrary.TryLoad(chosen, out _))
             return (false, $"the netCDF-C library GRIDDRIFT_LIBNETCDF names ({chosen}) cannot be loaded: on Debian or Ubuntu, apt-get install libnetcdf19, or point GRIDDRIFT_LIBNETCDF at libnetcdf.so");
-        foreach (var candidate in string.IsNullOrEmpty(chosen) ? new[] { "libnetcdf.so.19", "libnetcdf.so", "libnetcdf.so.22", "libnetcdf.so.18", "libnetcdf.dylib", "netcdf.dll" } : [chosen])
-            if (NativeLibrary.TryLoad(candidate, out var handle))
-            {
-                NativeLibrary.SetDllImportResolver(typeof(NetCdfLibrary).Assembly, (name, _, _) => name == Name ? handle : IntPtr.Zero);
-                return (true, candidate);
-            }
+        if (NativeLibraries.TryBind(Name, string.IsNullOrEmpty(chosen) ? ["libnetcdf.so.19", "libnetcdf.so", "libnetcdf.so.22", "libnetcdf.so.18", "libnetcdf.dylib", "netcdf.dll"] : [chosen], out var loaded))
+            return (true, loaded);
         return (false, "the netCDF-C library (libnetcdf) is not installed: on Debian or Ubuntu, apt-get install libnetcdf19");
     }
 

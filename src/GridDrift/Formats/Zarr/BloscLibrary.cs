@@ -7,34 +7,27 @@ namespace GridDrift.Formats.Zarr;
 /// Debian ships as libblosc1, loaded when the first blosc chunk is met: there is no managed
 /// decoder of blosclz. Without the library such a chunk is bad input naming the package.
 /// </summary>
-internal static unsafe class BloscLibrary
+internal static unsafe partial class BloscLibrary
 {
-    static readonly Lazy<IntPtr> Handle = new(() =>
-        NativeLibrary.TryLoad("libblosc.so.1", out var h) || NativeLibrary.TryLoad("libblosc.so", out h) || NativeLibrary.TryLoad("blosc", out h) ? h : IntPtr.Zero);
+    const string Name = "griddrift-blosc";
 
-    static delegate* unmanaged<void*, void*, nuint, int, int> _decompress;
-    static delegate* unmanaged<void*, nuint*, nuint*, nuint*, void> _sizes;
+    static readonly Lazy<bool> Loaded = new(() => NativeLibraries.TryBind(Name, ["libblosc.so.1", "libblosc.so", "blosc"], out _));
 
-    public static bool Available => Handle.Value != IntPtr.Zero;
+    [LibraryImport(Name)] private static partial int blosc_decompress_ctx(void* src, void* dest, nuint destsize, int numinternalthreads);
+    [LibraryImport(Name)] private static partial void blosc_cbuffer_sizes(void* cbuffer, nuint* nbytes, nuint* cbytes, nuint* blocksize);
+
+    public static bool Available => Loaded.Value;
 
     public const string Missing = "blosc-compressed chunks need the blosc library (Debian package libblosc1)";
-
-    static void Bind()
-    {
-        if (!Available) throw new InvalidDataException(Missing);
-        if (_decompress != null) return;
-        _decompress = (delegate* unmanaged<void*, void*, nuint, int, int>)NativeLibrary.GetExport(Handle.Value, "blosc_decompress_ctx");
-        _sizes = (delegate* unmanaged<void*, nuint*, nuint*, nuint*, void>)NativeLibrary.GetExport(Handle.Value, "blosc_cbuffer_sizes");
-    }
 
     /// <summary>The uncompressed size the frame's header declares, checked against the frame; <paramref name="where"/> names the chunk for messages.</summary>
     public static int DecodedSize(ReadOnlySpan<byte> frame, string where)
     {
-        Bind();
+        if (!Available) throw new InvalidDataException(Missing);
         // the frame header: version, version of the inner format, flags, type size, then uncompressed, block and compressed sizes (32-bit little-endian)
         if (frame.Length < 16) throw new InvalidDataException($"{where}: a blosc frame of {frame.Length} bytes is shorter than its 16-byte header");
         nuint nbytes, cbytes, blocksize;
-        fixed (byte* src = frame) _sizes(src, &nbytes, &cbytes, &blocksize);
+        fixed (byte* src = frame) blosc_cbuffer_sizes(src, &nbytes, &cbytes, &blocksize);
         if (cbytes > (nuint)frame.Length) throw new InvalidDataException($"{where}: the blosc header says {cbytes} compressed bytes; the chunk has {frame.Length}");
         if (nbytes > int.MaxValue) throw new InvalidDataException($"{where}: the blosc header says {nbytes} bytes uncompressed");
         return (int)nbytes;
@@ -49,7 +42,7 @@ internal static unsafe class BloscLibrary
         fixed (byte* src = frame)
         fixed (byte* dst = target)
         {
-            int n = _decompress(src, dst, (nuint)size, 1);
+            int n = blosc_decompress_ctx(src, dst, (nuint)size, 1);
             if (n != size) throw new InvalidDataException($"{where}: blosc could not decode the chunk (code {n})");
         }
     }
