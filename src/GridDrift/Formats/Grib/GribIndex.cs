@@ -60,7 +60,8 @@ internal sealed class GribIndex
         long at = 0;
         while (at < fileLength)
         {
-            long start = Find(handle, at, fileLength);
+            // messages usually follow one another directly; other bytes between them are searched through
+            long start = at + 16 <= fileLength && RandomAccess.Read(handle, head, at) == 16 && head.AsSpan(0, 4).SequenceEqual("GRIB"u8) ? at : Find(handle, at, fileLength);
             if (start < 0) break;
             if (start + 16 > fileLength || RandomAccess.Read(handle, head, start) < 16) throw new InvalidDataException($"message at byte {start} is cut short");
             int edition = head[7];
@@ -77,39 +78,62 @@ internal sealed class GribIndex
             at = start + size;
         }
         if (places.Count == 0) throw new InvalidDataException("holds no GRIB message");
-        var grids = new ConcurrentDictionary<string, Lazy<GribGrid>>(StringComparer.Ordinal);
-        var parameters = new ConcurrentDictionary<string, Lazy<GribParameter>>(StringComparer.Ordinal);
-        var messages = new GribMessage[places.Count];
+        // a parameter's names and a grid's coordinates are worked out once each, by the first worker
+        // to meet them and one such task per message, so that they run side by side while the other
+        // workers go on describing messages
+        var grids = new ConcurrentDictionary<string, GribGrid>(StringComparer.Ordinal);
+        var parameters = new ConcurrentDictionary<string, GribParameter>(StringComparer.Ordinal);
+        var claimed = new ConcurrentDictionary<string, bool>(StringComparer.Ordinal);
+        var described = new Described[places.Count];
         string name = Path.GetFileName(path);
+        void WithMessage(int k, Action<Eccodes.Message> use)
+        {
+            var (offset, length, _) = places[k];
+            var bytes = System.Buffers.ArrayPool<byte>.Shared.Rent(length);
+            try
+            {
+                if (!FileRanges.TryReadFully(handle, bytes.AsSpan(0, length), offset)) throw new InvalidDataException($"message at byte {offset} is cut short");
+                fixed (byte* start = bytes)
+                {
+                    using var m = new Eccodes.Message(start, length, $"{name}, message {k + 1}");
+                    use(m);
+                }
+            }
+            finally { System.Buffers.ArrayPool<byte>.Shared.Return(bytes); }
+        }
         try
         {
-            Parallel.For(0, places.Count, new ParallelOptions { MaxDegreeOfParallelism = Environment.ProcessorCount }, k =>
+            Parallel.For(0, places.Count, new ParallelOptions { MaxDegreeOfParallelism = Environment.ProcessorCount }, k => WithMessage(k, m =>
             {
-                var (offset, length, edition) = places[k];
-                var bytes = System.Buffers.ArrayPool<byte>.Shared.Rent(length);
-                try
-                {
-                    if (!FileRanges.TryReadFully(handle, bytes.AsSpan(0, length), offset)) throw new InvalidDataException($"message at byte {offset} is cut short");
-                    fixed (byte* start = bytes)
-                    {
-                        using var m = new Eccodes.Message(start, length, $"{name}, message {k + 1}");
-                        messages[k] = Describe(m, offset, length, edition, grids, parameters);
-                    }
-                }
-                finally { System.Buffers.ArrayPool<byte>.Shared.Return(bytes); }
-            });
+                var d = described[k] = Describe(m, places[k].Edition);
+                if (claimed.TryAdd("parameter " + d.Identity, true)) parameters[d.Identity] = Parameter(m);
+                else if (claimed.TryAdd("grid " + d.GridKey, true)) grids[d.GridKey] = Grid(m, d.GridKey, d.GridType);
+            }));
+            // a grid met only in messages that were busy with a parameter
+            foreach (int k in Enumerable.Range(0, places.Count).Where(k => !grids.ContainsKey(described[k].GridKey)))
+                if (claimed.TryAdd("grid " + described[k].GridKey, true)) WithMessage(k, m => grids[described[k].GridKey] = Grid(m, described[k].GridKey, described[k].GridType));
         }
         catch (AggregateException e) when (e.InnerExceptions.All(x => x is InvalidDataException or FormatException))
         {
             throw new InvalidDataException(e.InnerExceptions[0].Message, e.InnerExceptions[0]);
         }
+        var messages = new GribMessage[places.Count];
+        for (int k = 0; k < messages.Length; k++)
+        {
+            var (d, p) = (described[k], parameters[described[k].Identity]);
+            messages[k] = new GribMessage(places[k].Offset, places[k].Length, places[k].Edition, p.ShortName, p.VariableName, p.CfName, p.Units,
+                d.LevelType, d.Level, d.Valid, d.GridKey, d.Bitmap);
+        }
         return new GribIndex
         {
             Messages = messages,
-            Grids = grids.ToDictionary(g => g.Key, g => g.Value.Value, StringComparer.Ordinal),
+            Grids = new Dictionary<string, GribGrid>(grids, StringComparer.Ordinal),
             Editions = messages.Select(m => m.Edition).ToHashSet(),
         };
     }
+
+    /// <summary>A message's own keys, before its parameter's names are known: <see cref="Identity"/> is what those names depend on.</summary>
+    readonly record struct Described(string Identity, string LevelType, double Level, DateTime Valid, string GridKey, string GridType, bool Bitmap);
 
     static long Find(Microsoft.Win32.SafeHandles.SafeFileHandle handle, long from, long length)
     {
@@ -124,48 +148,48 @@ internal sealed class GribIndex
         return -1;
     }
 
-    static GribMessage Describe(Eccodes.Message m, long offset, int length, int edition,
-        ConcurrentDictionary<string, Lazy<GribGrid>> grids, ConcurrentDictionary<string, Lazy<GribParameter>> parameters)
+    static Described Describe(Eccodes.Message m, int edition)
     {
         // the keys a parameter's concepts depend on, cheap to read: the concepts are looked up once for each distinct set
         string identity = string.Join("|", edition, m.LongOrNull("centre"), m.LongOrNull("discipline"), m.LongOrNull("parameterCategory"), m.LongOrNull("parameterNumber"),
             m.LongOrNull("table2Version"), m.LongOrNull("indicatorOfParameter"), m.LongOrNull("typeOfFirstFixedSurface"), m.LongOrNull("indicatorOfTypeOfLevel"),
             m.LongOrNull("productDefinitionTemplateNumber"), m.LongOrNull("localDefinitionNumber"), m.LongOrNull("typeOfStatisticalProcessing"));
-        var parameter = parameters.GetOrAdd(identity, _ => new Lazy<GribParameter>(() => Parameter(m))).Value;
         string levelType = m.Text("typeOfLevel") ?? "unknown";
         double level = m.Has("level") ? m.Double("level") : 0;
         long date = m.Long("validityDate"), time = m.Long("validityTime");
         var valid = DateTime.ParseExact(date.ToString("D8", CultureInfo.InvariantCulture), "yyyyMMdd", CultureInfo.InvariantCulture, DateTimeStyles.AssumeUniversal | DateTimeStyles.AdjustToUniversal)
             .AddHours(time / 100).AddMinutes(time % 100);
         string gridType = m.Text("gridType") ?? "unknown";
-        long ni = m.LongOrNull("Ni") ?? -1, nj = m.LongOrNull("Nj") ?? -1;
-        string gridKey = string.Join("|", gridType, ni, nj,
+        string gridKey = string.Join("|", gridType, m.LongOrNull("Ni") ?? -1, m.LongOrNull("Nj") ?? -1,
             Key(m, "latitudeOfFirstGridPointInDegrees"), Key(m, "latitudeOfLastGridPointInDegrees"),
             Key(m, "longitudeOfFirstGridPointInDegrees"), Key(m, "longitudeOfLastGridPointInDegrees"),
             m.LongOrNull("iScansNegatively"), m.LongOrNull("jScansPositively"), m.LongOrNull("jPointsAreConsecutive"));
-        _ = grids.GetOrAdd(gridKey, _ => new Lazy<GribGrid>(() => Grid(m, gridKey, gridType, ni, nj))).Value; // while this message's handle lives
-        return new GribMessage(offset, length, edition, parameter.ShortName, parameter.VariableName, parameter.CfName, parameter.Units,
-            levelType, level, valid, gridKey, m.LongOrNull("bitmapPresent") == 1);
+        return new Described(identity, levelType, level, valid, gridKey, gridType, m.LongOrNull("bitmapPresent") == 1);
     }
 
     static GribParameter Parameter(Eccodes.Message m)
     {
         string shortName = m.Text("shortName") ?? "unknown";
-        string? cfVarName = m.Text("cfVarName");
-        string name = cfVarName is { Length: > 0 } and not "unknown" and not "~" ? cfVarName : shortName;
+        // ecCodes' cfVarName differs from the short name where that is not a name CF recommends (2t is t2m): asked only then
+        string name = IsCfName(shortName) ? shortName
+            : m.Text("cfVarName") is { Length: > 0 } cfVarName and not "unknown" and not "~" ? cfVarName : shortName;
         string? cfName = m.Text("cfName") is { Length: > 0 } cf and not "unknown" and not "~" ? cf : null;
         string? units = m.Text("units") is { Length: > 0 } u and not "unknown" and not "~" ? u.Replace("**", "") : null;
         // ecCodes names some water contents in kg m-2 by their liquid-water-equivalent thickness, whose CF units are metres; the
         // standard name that matches the units is the mass content itself (1 kg m-2 of water is 1 mm of it)
         if (cfName is not null && units == "kg m-2" && cfName.StartsWith("lwe_thickness_of_", StringComparison.Ordinal)) cfName = cfName["lwe_thickness_of_".Length..];
-        // ecCodes' long name and parameter id are left out: each concept costs 50-70 ms of definitions the first time it is asked for
+        // ecCodes' long name and parameter id are left out: each concept costs 40-70 ms of definitions the first time it is asked for
         return new GribParameter(shortName, name, cfName, units);
     }
 
+    /// <summary>CF Conventions 1.11 §2.3: names should begin with a letter and be composed of letters, digits and underscores.</summary>
+    static bool IsCfName(string name) => name.Length > 0 && char.IsAsciiLetter(name[0]) && name.All(c => char.IsAsciiLetterOrDigit(c) || c == '_');
+
     static string Key(Eccodes.Message m, string key) => m.Has(key) ? m.Double(key).ToString("R", CultureInfo.InvariantCulture) : "";
 
-    static GribGrid Grid(Eccodes.Message m, string key, string gridType, long ni, long nj)
+    static GribGrid Grid(Eccodes.Message m, string key, string gridType)
     {
+        long ni = m.LongOrNull("Ni") ?? -1, nj = m.LongOrNull("Nj") ?? -1;
         string? unreadable = gridType switch
         {
             "regular_ll" or "regular_gg" => null,
