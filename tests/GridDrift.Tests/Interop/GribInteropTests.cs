@@ -118,5 +118,44 @@ public class GribInteropTests
         Assert.Contains("reduced.grib2", outcome.Stderr);
     }
 
+    /// <summary>
+    /// Variables are named by ecCodes' cfVarName; GridDrift asks for it only where the short name
+    /// is not a CF name (CF §2.3: a letter first), as 2 m temperature's "2t". The witness is
+    /// python3-eccodes' own cfVarName, units and cfName for each message.
+    /// </summary>
+    [InteropFact(Needs.PythonEccodes)]
+    public void Variables_are_named_units_and_standard_names_given_as_python_eccodes_gives_them()
+    {
+        using var dir = new TempFolder();
+        string grib = dir.File("names.grib2");
+        string code = "import eccodes, json, sys\n" +
+                      "out = open(sys.argv[1], 'wb'); seen = []\n" +
+                      "for short in ('2t', '10u', 'tcwv', 'msl'):\n" +
+                      "    h = eccodes.codes_grib_new_from_samples('regular_ll_sfc_grib2')\n" +
+                      "    eccodes.codes_set(h, 'shortName', short)\n" +
+                      "    eccodes.codes_write(h, out)\n" +
+                      "    seen.append({k: eccodes.codes_get(h, k) for k in ('shortName', 'cfVarName', 'units', 'cfName')})\n" +
+                      "print(json.dumps(seen))\n";
+        File.WriteAllText(dir.File("names.py"), code);
+        var r = ExternalTools.Run(ExternalTools.Python, $"\"{dir.File("names.py")}\" \"{grib}\"");
+        Assert.True(r.ExitCode == 0, r.Stderr);
+        var witness = JsonNode.Parse(r.Stdout)!.AsArray();
+
+        using var reader = DatasetFiles.Open(grib);
+        foreach (var message in witness)
+        {
+            string cfVarName = (string)message!["cfVarName"]!;
+            var v = reader.RequireVariable(cfVarName);
+            Assert.Equal((string)message["shortName"]!, v.Attributes.Text("parameter_short_name"));
+            Assert.Equal(((string)message["units"]!).Replace("**", ""), v.Attributes.Text("units"));
+            // a water content in kg m-2 takes the mass-content name rather than the liquid-water-equivalent thickness ecCodes gives
+            string cfName = (string)message["cfName"]!, units = (string)message["units"]!;
+            string? expected = cfName is "unknown" or "~" ? null
+                : units == "kg m**-2" && cfName.StartsWith("lwe_thickness_of_", StringComparison.Ordinal) ? cfName["lwe_thickness_of_".Length..] : cfName;
+            Assert.Equal(expected, v.Attributes.Text("standard_name"));
+        }
+        Assert.Contains(witness, m => (string)m!["shortName"]! != (string)m["cfVarName"]!); // the rule is exercised
+    }
+
     static void Ok(CliRun.Outcome outcome) => Assert.True(outcome.ExitCode == 0, outcome.Stderr);
 }
