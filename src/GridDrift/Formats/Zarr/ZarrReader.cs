@@ -205,7 +205,7 @@ internal sealed class ZarrReader : IDatasetReader
         var request = Request(array, u);
         var lease = request is { } held ? DecodedChunks.Get(held.Key, array.UnitBytes, held.Decode) : default;
         // the next units along time, one per core as far as the cache holds them, are decoded while the workers use this one
-        int depth = Math.Max(1, Math.Min(Environment.ProcessorCount, (int)(DecodedChunks.Budget / Math.Max(1, array.UnitBytes)) - 2));
+        int depth = Math.Max(1, Math.Min(Environment.ProcessorCount, (int)(DecodedChunks.Budget / Math.Max(1, array.UnitBytes)) - 1));
         for (int d = 1; d <= depth && u.Length > 0 && (u[0] + d) * array.UnitShape[0] < array.Shape[0]; d++)
         {
             var next = (long[])u.Clone();
