@@ -62,6 +62,7 @@ internal static unsafe partial class Eccodes
     }
 
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_message(void* context, void* data, nuint length);
+    [LibraryImport(Name)] private static partial void* codes_handle_new_from_partial_message(void* context, void* data, nuint length);
     [LibraryImport(Name)] private static partial int codes_handle_delete(void* handle);
     [LibraryImport(Name)] private static partial int codes_get_long(void* handle, byte* key, long* value);
     [LibraryImport(Name)] private static partial int codes_get_double(void* handle, byte* key, double* value);
@@ -77,11 +78,15 @@ internal static unsafe partial class Eccodes
         void* _handle;
         readonly string _where;
 
-        public Message(byte* bytes, long length, string where)
+        /// <param name="headersOnly">
+        /// The bytes are a GRIB 2 message's sections before its data (a partial handle): every
+        /// key but the values and the grid's coordinates, at half the cost of a whole handle.
+        /// </param>
+        public Message(byte* bytes, long length, string where, bool headersOnly = false)
         {
             _where = where;
             Require();
-            _handle = codes_handle_new_from_message(null, bytes, (nuint)length);
+            _handle = headersOnly ? codes_handle_new_from_partial_message(null, bytes, (nuint)length) : codes_handle_new_from_message(null, bytes, (nuint)length);
             if (_handle == null) throw new InvalidDataException($"{where}: ecCodes cannot decode the message");
         }
 

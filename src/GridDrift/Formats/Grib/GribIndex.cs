@@ -86,16 +86,16 @@ internal sealed class GribIndex
         var claimed = new ConcurrentDictionary<string, bool>(StringComparer.Ordinal);
         var described = new Described[places.Count];
         string name = Path.GetFileName(path);
-        void WithMessage(int k, Action<Eccodes.Message> use)
+        void WithMessage(int k, bool headersOnly, Action<Eccodes.Message> use)
         {
             var (offset, length, _) = places[k];
-            var bytes = System.Buffers.ArrayPool<byte>.Shared.Rent(length);
+            int read = length;
+            var bytes = headersOnly ? RentHeaders(handle, offset, length, out read) : RentWhole(handle, offset, length);
             try
             {
-                if (!FileRanges.TryReadFully(handle, bytes.AsSpan(0, length), offset)) throw new InvalidDataException($"message at byte {offset} is cut short");
                 fixed (byte* start = bytes)
                 {
-                    using var m = new Eccodes.Message(start, length, $"{name}, message {k + 1}");
+                    using var m = new Eccodes.Message(start, read, $"{name}, message {k + 1}", headersOnly && read < length);
                     use(m);
                 }
             }
@@ -103,15 +103,16 @@ internal sealed class GribIndex
         }
         try
         {
-            Parallel.For(0, places.Count, new ParallelOptions { MaxDegreeOfParallelism = Environment.ProcessorCount }, k => WithMessage(k, m =>
+            // GRIB 1's grid type needs the whole message; GRIB 2's keys are all in the sections before the data
+            Parallel.For(0, places.Count, new ParallelOptions { MaxDegreeOfParallelism = Environment.ProcessorCount }, k => WithMessage(k, places[k].Edition == 2, m =>
             {
                 var d = described[k] = Describe(m, places[k].Edition);
                 if (claimed.TryAdd("parameter " + d.Identity, true)) parameters[d.Identity] = Parameter(m);
-                else if (claimed.TryAdd("grid " + d.GridKey, true)) grids[d.GridKey] = Grid(m, d.GridKey, d.GridType);
+                else if (claimed.TryAdd("grid " + d.GridKey, true)) WithMessage(k, false, whole => grids[d.GridKey] = Grid(whole, d.GridKey, d.GridType));
             }));
             // a grid met only in messages that were busy with a parameter
             foreach (int k in Enumerable.Range(0, places.Count).Where(k => !grids.ContainsKey(described[k].GridKey)))
-                if (claimed.TryAdd("grid " + described[k].GridKey, true)) WithMessage(k, m => grids[described[k].GridKey] = Grid(m, described[k].GridKey, described[k].GridType));
+                if (claimed.TryAdd("grid " + described[k].GridKey, true)) WithMessage(k, false, m => grids[described[k].GridKey] = Grid(m, described[k].GridKey, described[k].GridType));
         }
         catch (AggregateException e) when (e.InnerExceptions.All(x => x is InvalidDataException or FormatException))
         {
@@ -130,6 +131,54 @@ internal sealed class GribIndex
             Grids = new Dictionary<string, GribGrid>(grids, StringComparer.Ordinal),
             Editions = messages.Select(m => m.Edition).ToHashSet(),
         };
+    }
+
+    static byte[] RentWhole(Microsoft.Win32.SafeHandles.SafeFileHandle file, long offset, int length)
+    {
+        var bytes = System.Buffers.ArrayPool<byte>.Shared.Rent(length);
+        if (FileRanges.TryReadFully(file, bytes.AsSpan(0, length), offset)) return bytes;
+        System.Buffers.ArrayPool<byte>.Shared.Return(bytes);
+        throw new InvalidDataException($"message at byte {offset} is cut short");
+    }
+
+    /// <summary>
+    /// A GRIB 2 message's sections up to the data section's 5-byte header, found by walking the
+    /// sections' own lengths (each starts with its length and number): a few kilobytes of a
+    /// message of megabytes. The whole message where the sections do not lead to a data section.
+    /// </summary>
+    static byte[] RentHeaders(Microsoft.Win32.SafeHandles.SafeFileHandle file, long offset, int length, out int read)
+    {
+        read = Math.Min(length, 1 << 16);
+        var bytes = RentWhole(file, offset, read);
+        int at = 16; // after section 0
+        while (true)
+        {
+            if (at + 5 > length - 4) break; // at "7777": no data section
+            if (at + 5 > read) bytes = Extend(file, offset, bytes, ref read, Math.Min(length, Math.Max(2 * read, at + 5 + (1 << 16))));
+            long sectionLength = BinaryPrimitives.ReadUInt32BigEndian(bytes.AsSpan(at));
+            if (bytes[at + 4] == 7)
+            {
+                read = at + 5;
+                return bytes;
+            }
+            if (sectionLength < 5 || at + sectionLength > length) break;
+            at += (int)sectionLength;
+        }
+        return read == length ? bytes : Extend(file, offset, bytes, ref read, length);
+    }
+
+    static byte[] Extend(Microsoft.Win32.SafeHandles.SafeFileHandle file, long offset, byte[] bytes, ref int read, int wanted)
+    {
+        var larger = System.Buffers.ArrayPool<byte>.Shared.Rent(wanted);
+        bytes.AsSpan(0, read).CopyTo(larger);
+        System.Buffers.ArrayPool<byte>.Shared.Return(bytes);
+        if (!FileRanges.TryReadFully(file, larger.AsSpan(read, wanted - read), offset + read))
+        {
+            System.Buffers.ArrayPool<byte>.Shared.Return(larger);
+            throw new InvalidDataException($"message at byte {offset} is cut short");
+        }
+        read = wanted;
+        return larger;
     }
 
     /// <summary>A message's own keys, before its parameter's names are known: <see cref="Identity"/> is what those names depend on.</summary>
