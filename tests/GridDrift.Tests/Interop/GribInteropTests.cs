@@ -157,5 +157,48 @@ public class GribInteropTests
         Assert.Contains(witness, m => (string)m!["shortName"]! != (string)m["cfVarName"]!); // the rule is exercised
     }
 
+    /// <summary>
+    /// GRIB 1 messages over 8 MB (a 0.1° global grid at 16 bits is 13 MB) do not fit the 3-byte
+    /// length; ecCodes writes ECMWF's large-message coding and GridDrift has ecCodes find their
+    /// ends. Witness: the second message's values as python3-eccodes reads them.
+    /// </summary>
+    [InteropFact(Needs.PythonEccodes)]
+    public void GRIB_1_messages_over_8_MB_are_read_as_python_eccodes_reads_them()
+    {
+        using var dir = new TempFolder();
+        string grib = dir.File("large.grib1"), values = dir.File("second.f64");
+        string code = "import eccodes, numpy as np, sys\n" +
+                      "out = open(sys.argv[1], 'wb')\n" +
+                      "for k in range(2):\n" +
+                      "    h = eccodes.codes_grib_new_from_samples('regular_ll_sfc_grib1')\n" +
+                      "    eccodes.codes_set(h, 'shortName', 'tcwv')\n" +
+                      "    for key, v in (('Ni', 3600), ('Nj', 1801)): eccodes.codes_set_long(h, key, v)\n" +
+                      "    for key, v in (('iDirectionIncrementInDegrees', 0.1), ('jDirectionIncrementInDegrees', 0.1), ('latitudeOfFirstGridPointInDegrees', 90.0),\n" +
+                      "                   ('latitudeOfLastGridPointInDegrees', -90.0), ('longitudeOfFirstGridPointInDegrees', 0.0), ('longitudeOfLastGridPointInDegrees', 359.9)): eccodes.codes_set(h, key, v)\n" +
+                      "    eccodes.codes_set_long(h, 'bitsPerValue', 16)\n" +
+                      "    eccodes.codes_set(h, 'dataTime', 600 * k)\n" +
+                      "    eccodes.codes_set_values(h, 30 + 10 * np.sin(np.arange(3600 * 1801) / 5000.0 + k))\n" +
+                      "    eccodes.codes_write(h, out)\n" +
+                      "out.close()\n" +
+                      "f = open(sys.argv[1], 'rb'); eccodes.codes_release(eccodes.codes_grib_new_from_file(f))\n" +
+                      "h = eccodes.codes_grib_new_from_file(f); eccodes.codes_get_values(h).tofile(sys.argv[2])\n";
+        File.WriteAllText(dir.File("large.py"), code);
+        var r = ExternalTools.Run(ExternalTools.Python, $"\"{dir.File("large.py")}\" \"{grib}\" \"{values}\"", timeoutSeconds: 300);
+        Assert.True(r.ExitCode == 0, r.Stderr);
+        var head = new byte[8];
+        using (var f = File.OpenRead(grib)) f.ReadExactly(head);
+        Assert.True((head[4] & 0x80) != 0, "the first message uses the large-message coding"); // else the test does not exercise it
+
+        using var reader = DatasetFiles.Open(grib);
+        var tcwv = reader.RequireVariable("tcwv");
+        Assert.Equal([2L, 1801, 3600], tcwv.Shape);
+        var frame = new float[1801 * 3600];
+        reader.ReadRaw(tcwv, [1, 0, 0], [1, 1801, 3600], MemoryMarshal.AsBytes(frame.AsSpan()));
+        var expected = MemoryMarshal.Cast<byte, double>(File.ReadAllBytes(values));
+        Assert.Equal(frame.Length, expected.Length);
+        for (int k = 0; k < frame.Length; k++)
+            if (frame[k] != (float)expected[k]) Assert.Fail($"point {k}: {frame[k]} against {expected[k]}");
+    }
+
     static void Ok(CliRun.Outcome outcome) => Assert.True(outcome.ExitCode == 0, outcome.Stderr);
 }

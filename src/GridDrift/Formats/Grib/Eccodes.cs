@@ -64,6 +64,12 @@ internal static unsafe partial class Eccodes
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_message(void* context, void* data, nuint length);
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_partial_message(void* context, void* data, nuint length);
     [LibraryImport(Name)] private static partial int codes_handle_delete(void* handle);
+    [LibraryImport(Name)] private static partial void* codes_handle_new_from_file(void* context, IntPtr file, int product, int* error);
+    [LibraryImport(Name)] private static partial int codes_get_message_size(void* handle, nuint* size);
+    [LibraryImport(Name)] private static partial int codes_get_message_offset(void* handle, long* offset);
+    [LibraryImport("libc", StringMarshalling = StringMarshalling.Utf8)] private static partial IntPtr fopen(string path, string mode);
+    [LibraryImport("libc")] private static partial int fseeko(IntPtr stream, long offset, int whence);
+    [LibraryImport("libc")] private static partial int fclose(IntPtr stream);
     [LibraryImport(Name)] private static partial int codes_get_long(void* handle, byte* key, long* value);
     [LibraryImport(Name)] private static partial int codes_get_double(void* handle, byte* key, double* value);
     [LibraryImport(Name)] private static partial int codes_get_string(void* handle, byte* key, byte* value, nuint* length);
@@ -71,6 +77,36 @@ internal static unsafe partial class Eccodes
     [LibraryImport(Name)] private static partial int codes_get_double_array(void* handle, byte* key, double* values, nuint* length);
     [LibraryImport(Name)] private static partial int codes_is_defined(void* handle, byte* key);
     [LibraryImport(Name)] private static partial int codes_set_double(void* handle, byte* key, double value);
+
+    /// <summary>
+    /// The length of the message at byte <paramref name="offset"/> as ecCodes' own reader finds it.
+    /// GRIB 1 messages over 8 MB do not fit the 3-byte length field; ECMWF's coding of them scales
+    /// the field and needs the data section to resolve, which ecCodes does as it reads the message.
+    /// </summary>
+    public static long MessageLengthAt(string path, long offset)
+    {
+        Require();
+        const int ProductGrib = 1, FromStart = 0;
+        var file = fopen(path, "rb");
+        if (file == IntPtr.Zero) throw new InvalidDataException("ecCodes cannot open the file");
+        try
+        {
+            if (fseeko(file, offset, FromStart) != 0) throw new InvalidDataException($"message at byte {offset}: ecCodes cannot seek to it");
+            int error;
+            void* handle = codes_handle_new_from_file(null, file, ProductGrib, &error);
+            if (handle == null) throw new InvalidDataException($"message at byte {offset}: ecCodes cannot read it (error {error})");
+            try
+            {
+                nuint size;
+                long at;
+                if (codes_get_message_size(handle, &size) != 0 || codes_get_message_offset(handle, &at) != 0 || at != offset)
+                    throw new InvalidDataException($"message at byte {offset}: ecCodes reads another extent");
+                return (long)size;
+            }
+            finally { codes_handle_delete(handle); }
+        }
+        finally { fclose(file); }
+    }
 
     /// <summary>A decoded view of one message, over bytes that outlive it; ecCodes does not copy them.</summary>
     public sealed class Message : IDisposable

@@ -46,9 +46,10 @@ internal sealed class GribIndex
 
     /// <summary>
     /// The messages' places from their section-0 headers alone ("GRIB", edition, total length),
-    /// then each message read into a pooled buffer and described, on every core. (A mapped file
-    /// was faster to index, but ecCodes touched most of each message's pages, which the process
-    /// then held: 1.15 GB of resident memory for 1000 frames of 721 × 1440.)
+    /// then each message described on every core, from its sections before the data (GRIB 2) or
+    /// whole (GRIB 1), read into a pooled buffer. (A mapped file was faster to index, but ecCodes
+    /// touched most of each message's pages, which the process then held: 1.15 GB of resident
+    /// memory for 1000 frames of 721 × 1440.)
     /// </summary>
     static unsafe GribIndex Build(string path)
     {
@@ -71,7 +72,7 @@ internal sealed class GribIndex
                 2 => (long)BinaryPrimitives.ReadUInt64BigEndian(head.AsSpan(8)),
                 _ => throw new InvalidDataException($"message at byte {start} says GRIB edition {edition}; editions 1 and 2 are read"),
             };
-            if (edition == 1 && (size & 0x800000) != 0) throw new InvalidDataException($"message at byte {start} is a GRIB 1 message over 8 MB (the large-message length coding is not read)");
+            if (edition == 1 && (size & 0x800000) != 0) size = Eccodes.MessageLengthAt(path, start); // over 8 MB
             if (size < 16 || start + size > fileLength || size > int.MaxValue) throw new InvalidDataException($"message at byte {start} claims {size} bytes; the file has {fileLength - start} from there");
             if (RandomAccess.Read(handle, tail, start + size - 4) < 4 || !tail.AsSpan().SequenceEqual("7777"u8)) throw new InvalidDataException($"message at byte {start} does not end in '7777' (cut or damaged)");
             places.Add((start, (int)size, edition));
@@ -79,8 +80,7 @@ internal sealed class GribIndex
         }
         if (places.Count == 0) throw new InvalidDataException("holds no GRIB message");
         // a parameter's names and a grid's coordinates are worked out once each, by the first worker
-        // to meet them and one such task per message, so that they run side by side while the other
-        // workers go on describing messages
+        // to meet them, at most one of the two per message so that they fall to different workers
         var grids = new ConcurrentDictionary<string, GribGrid>(StringComparer.Ordinal);
         var parameters = new ConcurrentDictionary<string, GribParameter>(StringComparer.Ordinal);
         var claimed = new ConcurrentDictionary<string, bool>(StringComparer.Ordinal);
