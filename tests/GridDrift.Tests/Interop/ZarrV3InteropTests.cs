@@ -8,8 +8,8 @@ namespace GridDrift.Tests.Interop;
 /// Zarr v3 stores written by zarrita (npm, a JavaScript Zarr v3 implementation) with each codec,
 /// read by GridDrift and compared value for value with what zarrita reads back
 /// (zarrita/zarr_v3_store.mjs): dimension_names, a chunk never written, big-endian integers with a
-/// crc32c checksum under v2-spelled keys, and shards of inner chunks with a checksummed index and
-/// an inner chunk never written.
+/// crc32c checksum under v2-spelled keys, shards of inner chunks with a checksummed index and
+/// an inner chunk never written, and the same store described by inline consolidated metadata.
 /// </summary>
 public class ZarrV3InteropTests
 {
@@ -29,8 +29,26 @@ public class ZarrV3InteropTests
         using var dir = new TempFolder();
         string store = dir.File("record.zarr"), witness = dir.File("witness.bin");
         ExternalTools.RunNode("zarr_v3_store.mjs", store, codec, witness);
-        var expected = File.ReadAllBytes(witness).Chunk(8).Select(c => BitConverter.ToDouble(c)).ToArray();
+        AssertReadsAsZarrita(store, witness);
+    }
 
+    /// <summary>
+    /// A store whose arrays are described only in the root document's inline consolidated
+    /// metadata (their own zarr.json removed after zarrita wrote and read them) reads the same.
+    /// </summary>
+    [InteropFact(Needs.NodeZarrita)]
+    public void Arrays_described_only_by_consolidated_metadata_read_as_zarrita_reads_them()
+    {
+        using var dir = new TempFolder();
+        string store = dir.File("record.zarr"), witness = dir.File("witness.bin");
+        ExternalTools.RunNode("zarr_v3_store.mjs", store, "zstd", witness, "consolidated");
+        Assert.False(File.Exists(Path.Combine(store, "tcwv", "zarr.json")));
+        AssertReadsAsZarrita(store, witness);
+    }
+
+    static void AssertReadsAsZarrita(string store, string witness)
+    {
+        var expected = File.ReadAllBytes(witness).Chunk(8).Select(c => BitConverter.ToDouble(c)).ToArray();
         using var reader = DatasetFiles.Open(store);
         Assert.Equal("Zarr v3", reader.Format);
         Assert.Equal("CF-1.8", reader.Attributes.Text("Conventions"));

@@ -1,8 +1,12 @@
 // An invented CF record as a Zarr v3 store, written by zarrita (npm) and read back by zarrita
 // as the witness GridDrift's Zarr v3 reading is checked against.
 //
-// usage: node zarr_v3_store.mjs STORE CODEC OUT.bin
+// usage: node zarr_v3_store.mjs STORE CODEC OUT.bin [consolidated]
 // CODEC: none gzip zlib zstd lz4 blosc-lz4-shuffle blosc-zstd-bitshuffle blosc-blosclz-noshuffle
+// consolidated: after the witness is read, every array's zarr.json moves into the root
+// document's inline consolidated_metadata (zarr-python's convention for v3: kind "inline",
+// must_understand false, documents by path) and is removed from the array's folder, so a
+// reader can only find the arrays there.
 //
 // The store: time, lat (north to south), lon coordinates with dimension_names; tcwv (float32,
 // 7 x 25 x 144, chunks 3 x 13 x 72, fill NaN, the codec given, NaN cells, one chunk never
@@ -17,7 +21,7 @@ import * as path from "node:path";
 import * as zarr from "zarrita";
 import FileSystemStore from "@zarrita/storage/fs";
 
-const [storePath, codecName, outPath] = process.argv.slice(2);
+const [storePath, codecName, outPath, layout] = process.argv.slice(2);
 const nt = 7, ny = 25, nx = 144;
 
 function compressor(name) {
@@ -155,3 +159,16 @@ for (const name of ["tcwv", "q", "tcwv_shards"]) {
   out.push(Float64Array.from(data, Number));
 }
 fs.writeFileSync(outPath, Buffer.concat(out.map((a) => Buffer.from(a.buffer))));
+
+if (layout === "consolidated") {
+  const rootPath = path.join(storePath, "zarr.json");
+  const rootMeta = JSON.parse(fs.readFileSync(rootPath, "utf8"));
+  const documents = {};
+  for (const name of ["time", "lat", "lon", "tcwv", "q", "tcwv_shards"]) {
+    const file = path.join(storePath, name, "zarr.json");
+    documents[name] = JSON.parse(fs.readFileSync(file, "utf8"));
+    fs.rmSync(file);
+  }
+  rootMeta.consolidated_metadata = { kind: "inline", must_understand: false, metadata: documents };
+  fs.writeFileSync(rootPath, JSON.stringify(rootMeta, null, 2));
+}
