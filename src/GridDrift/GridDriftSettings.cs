@@ -2,7 +2,8 @@ namespace GridDrift;
 
 /// <summary>
 /// What the environment may set for a whole process, read in one place: whether input checksums
-/// are remembered and where, where netCDF-C's library is, and where fonts for plots are. The
+/// and GRIB indexes are remembered and where, where netCDF-C's library is, and where fonts for
+/// plots are. The
 /// command line takes <see cref="FromEnvironment"/>; a program using the library may set
 /// <see cref="Current"/> itself.
 /// </summary>
@@ -10,7 +11,8 @@ namespace GridDrift;
 /// <param name="ChecksumFile">$XDG_CACHE_HOME/griddrift/sha256.tsv, else ~/.cache/griddrift/sha256.tsv</param>
 /// <param name="NetCdfLibrary">GRIDDRIFT_LIBNETCDF: the netCDF-C library file where it is not on the loader's path</param>
 /// <param name="FontFolder">GRIDDRIFT_FONT_DIR: a folder searched first for the plot fonts</param>
-public sealed record GridDriftSettings(bool RememberChecksums, string? ChecksumFile, string? NetCdfLibrary, string? FontFolder)
+/// <param name="GribIndexFolder">$XDG_CACHE_HOME/griddrift/grib-index, else ~/.cache/griddrift/grib-index; GRIDDRIFT_GRIB_INDEX_CACHE=off makes it null</param>
+public sealed record GridDriftSettings(bool RememberChecksums, string? ChecksumFile, string? NetCdfLibrary, string? FontFolder, string? GribIndexFolder)
 {
     public static GridDriftSettings Current { get; set; } = FromEnvironment();
 
@@ -23,6 +25,7 @@ public sealed record GridDriftSettings(bool RememberChecksums, string? ChecksumF
             !string.Equals(Variable("GRIDDRIFT_CHECKSUM_CACHE"), "off", StringComparison.OrdinalIgnoreCase),
             root is null ? null : Path.Combine(root, "griddrift", "sha256.tsv"),
             Variable("GRIDDRIFT_LIBNETCDF"),
-            Variable("GRIDDRIFT_FONT_DIR"));
+            Variable("GRIDDRIFT_FONT_DIR"),
+            root is null || string.Equals(Variable("GRIDDRIFT_GRIB_INDEX_CACHE"), "off", StringComparison.OrdinalIgnoreCase) ? null : Path.Combine(root, "griddrift", "grib-index"));
     }
 }

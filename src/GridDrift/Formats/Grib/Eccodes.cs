@@ -64,6 +64,7 @@ internal static unsafe partial class Eccodes
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_message(void* context, void* data, nuint length);
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_partial_message(void* context, void* data, nuint length);
     [LibraryImport(Name)] private static partial int codes_handle_delete(void* handle);
+    [LibraryImport(Name)] private static partial long codes_get_api_version();
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_file(void* context, IntPtr file, int product, int* error);
     [LibraryImport(Name)] private static partial int codes_get_message_size(void* handle, nuint* size);
     [LibraryImport(Name)] private static partial int codes_get_message_offset(void* handle, long* offset);
@@ -77,6 +78,13 @@ internal static unsafe partial class Eccodes
     [LibraryImport(Name)] private static partial int codes_get_double_array(void* handle, byte* key, double* values, nuint* length);
     [LibraryImport(Name)] private static partial int codes_is_defined(void* handle, byte* key);
     [LibraryImport(Name)] private static partial int codes_set_double(void* handle, byte* key, double value);
+
+    /// <summary>ecCodes' version and where its definitions come from: what its names and keys depend on besides the message.</summary>
+    public static string Identity()
+    {
+        Require();
+        return codes_get_api_version().ToString(System.Globalization.CultureInfo.InvariantCulture) + "\t" + Environment.GetEnvironmentVariable("ECCODES_DEFINITION_PATH");
+    }
 
     /// <summary>
     /// The length of the message at byte <paramref name="offset"/> as ecCodes' own reader finds it.

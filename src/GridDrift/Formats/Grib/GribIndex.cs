@@ -18,7 +18,8 @@ internal sealed record GribGrid(string Key, string Kind, int Rows, int Columns, 
 /// The messages of a GRIB file (editions 1 and 2, any order, other bytes between messages
 /// skipped), with the keys ecCodes decodes from each: parameter, level type and level, validity
 /// time (reference time plus step) and grid. An index is built once per file and version in the
-/// process, so the readers of every worker share it.
+/// process, so the readers of every worker share it, and remembered between runs
+/// (<see cref="GribIndexCache"/>).
 /// </summary>
 internal sealed class GribIndex
 {
@@ -32,7 +33,14 @@ internal sealed class GribIndex
     {
         var info = new FileInfo(path);
         string key = info.FullName + "\n" + info.Length + "\n" + info.LastWriteTimeUtc.Ticks;
-        var lazy = Built.GetOrAdd(key, _ => new Lazy<GribIndex>(() => Build(path)));
+        var lazy = Built.GetOrAdd(key, _ => new Lazy<GribIndex>(() =>
+        {
+            string? folder = GridDriftSettings.Current.GribIndexFolder;
+            if (GribIndexCache.Load(path, folder) is { } remembered) return remembered;
+            var built = Build(path);
+            GribIndexCache.Store(path, folder, built);
+            return built;
+        }));
         try { return lazy.Value; }
         catch
         {
@@ -51,7 +59,7 @@ internal sealed class GribIndex
     /// touched most of each message's pages, which the process then held: 1.15 GB of resident
     /// memory for 1000 frames of 721 × 1440.)
     /// </summary>
-    static unsafe GribIndex Build(string path)
+    internal static unsafe GribIndex Build(string path)
     {
         using var handle = File.OpenHandle(path, FileMode.Open, FileAccess.Read, FileShare.Read);
         long fileLength = RandomAccess.GetLength(handle);
