@@ -68,9 +68,9 @@ internal static unsafe partial class Eccodes
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_file(void* context, IntPtr file, int product, int* error);
     [LibraryImport(Name)] private static partial int codes_get_message_size(void* handle, nuint* size);
     [LibraryImport(Name)] private static partial int codes_get_message_offset(void* handle, long* offset);
-    [LibraryImport("libc", StringMarshalling = StringMarshalling.Utf8)] private static partial IntPtr fopen(string path, string mode);
-    [LibraryImport("libc")] private static partial int fseeko(IntPtr stream, long offset, int whence);
-    [LibraryImport("libc")] private static partial int fclose(IntPtr stream);
+    [LibraryImport("libc.so.6", StringMarshalling = StringMarshalling.Utf8)] private static partial IntPtr fopen(string path, string mode);
+    [LibraryImport("libc.so.6")] private static partial int fseeko(IntPtr stream, long offset, int whence);
+    [LibraryImport("libc.so.6")] private static partial int fclose(IntPtr stream);
     [LibraryImport(Name)] private static partial int codes_get_long(void* handle, byte* key, long* value);
     [LibraryImport(Name)] private static partial int codes_get_double(void* handle, byte* key, double* value);
     [LibraryImport(Name)] private static partial int codes_get_string(void* handle, byte* key, byte* value, nuint* length);
