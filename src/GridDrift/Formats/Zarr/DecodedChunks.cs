@@ -35,6 +35,7 @@ internal static class DecodedChunks
         public long LastUse;
         public int Users;
         public bool Evicted;
+        public bool Read;
     }
 
     /// <summary>A reader's hold on a decoded chunk: its bytes stay valid until the lease is disposed.</summary>
@@ -74,6 +75,7 @@ internal static class DecodedChunks
                 if (entry.Evicted) continue;
                 entry.Users++;
                 entry.LastUse = ++_clock;
+                entry.Read = true;
                 break;
             }
         }
@@ -101,9 +103,11 @@ internal static class DecodedChunks
 
     static Entry Add(string key, int size, Action<Span<byte>> decode)
     {
-        bool added = false;
-        var entry = Entries.GetOrAdd(key, _ => { added = true; return new Entry(decode, size); });
-        if (!added) return entry;
+        if (Entries.TryGetValue(key, out var held)) return held;
+        // counted only by the caller whose entry went in: a value factory may run for callers that lose the race
+        var fresh = new Entry(decode, size);
+        var entry = Entries.GetOrAdd(key, fresh);
+        if (!ReferenceEquals(entry, fresh)) return entry;
         lock (Gate)
         {
             entry.LastUse = ++_clock;
@@ -113,10 +117,15 @@ internal static class DecodedChunks
         return entry;
     }
 
-    /// <summary>Drops the least recently used decoded chunks beyond the budget, keeping the last two; a chunk still read returns its buffer when its last reader lets go.</summary>
+    /// <summary>
+    /// Drops the least recently used decoded chunks beyond the budget, keeping the last two; a
+    /// chunk still read returns its buffer when its last reader lets go. Chunks decoded ahead and
+    /// not yet read go last: by use alone the chunk after next, queued before the current one was
+    /// first read, looked oldest and was dropped just before it was wanted.
+    /// </summary>
     static void Evict()
     {
-        var oldest = Entries.ToArray().OrderBy(e => e.Value.LastUse).ToList(); // ToArray takes a consistent snapshot
+        var oldest = Entries.ToArray().OrderBy(e => e.Value.Read ? 0 : 1).ThenBy(e => e.Value.LastUse).ToList(); // ToArray takes a consistent snapshot
         for (int k = 0; k < oldest.Count - 2 && _held > Budget; k++)
         {
             var (key, entry) = oldest[k];
@@ -126,6 +135,12 @@ internal static class DecodedChunks
             entry.Evicted = true;
             if (entry.Users == 0 && entry.Bytes.IsValueCreated) Release(entry.Bytes.Value);
         }
+    }
+
+    /// <summary>The bytes counted as held, and the bytes of the chunks listed: equal whenever no chunk is being added.</summary>
+    internal static (long Counted, long Listed) Accounting()
+    {
+        lock (Gate) return (_held, Entries.Values.Sum(e => (long)e.Size));
     }
 
     static readonly ConcurrentDictionary<int, ConcurrentStack<byte[]>> Spares = new();
