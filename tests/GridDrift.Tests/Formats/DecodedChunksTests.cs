@@ -37,4 +37,15 @@ public class DecodedChunksTests
         var (counted, listed) = DecodedChunks.Accounting();
         Assert.Equal(listed, counted);
     }
+
+    /// <summary>A chunk whose decoding fails (a damaged chunk) is not remembered, and its bytes are not counted as held.</summary>
+    [Fact]
+    public void A_chunk_that_fails_to_decode_is_not_counted()
+    {
+        string key = Guid.NewGuid().ToString("N");
+        for (int attempt = 0; attempt < 3; attempt++)
+            Assert.Throws<InvalidDataException>(() => DecodedChunks.Get(key, 1 << 20, _ => throw new InvalidDataException("damaged")));
+        var (counted, listed) = DecodedChunks.Accounting();
+        Assert.Equal(listed, counted);
+    }
 }

@@ -83,7 +83,7 @@ internal static class DecodedChunks
         catch
         {
             lock (Gate) entry.Users--;
-            Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry)); // a failed decode is not remembered: the next reader reports it again
+            Forget(key, entry); // a failed decode is not remembered: the next reader reports it again
             throw;
         }
         return new Lease(entry);
@@ -97,8 +97,15 @@ internal static class DecodedChunks
         ThreadPool.UnsafeQueueUserWorkItem(_ =>
         {
             try { _ = entry.Bytes.Value; }
-            catch (Exception) { Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry)); }
+            catch (Exception) { Forget(key, entry); }
         }, null);
+    }
+
+    /// <summary>Removes a chunk whose decoding failed, and its bytes from the count (it holds no buffer).</summary>
+    static void Forget(string key, Entry entry)
+    {
+        lock (Gate)
+            if (Entries.TryRemove(new KeyValuePair<string, Entry>(key, entry))) _held -= entry.Size;
     }
 
     static Entry Add(string key, int size, Action<Span<byte>> decode)
