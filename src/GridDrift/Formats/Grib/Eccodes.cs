@@ -21,6 +21,7 @@ internal static unsafe partial class Eccodes
         WaitWithoutSpinning();
         if (!NativeLibraries.TryBind(Name, ["libeccodes.so.0", "libeccodes.so", "eccodes"], out _)) return false;
         KeepLargeBlocksOnTheHeap();
+        codes_context_set_logging_proc(codes_context_get_default(), &Log);
         return true;
     });
 
@@ -56,6 +57,25 @@ internal static unsafe partial class Eccodes
 
     public static bool Available => Loaded.Value;
 
+    [ThreadStatic] static string? _lastError; // the first since ForgetError
+
+    /// <summary>
+    /// ecCodes' own messages, which it would print to stderr: bad input must end in one line, so
+    /// the first error on each thread (the cause; later ones follow from it) is kept for the line
+    /// GridDrift writes, and the rest is dropped.
+    /// </summary>
+    [System.Runtime.InteropServices.UnmanagedCallersOnly]
+    static void Log(void* context, int level, byte* message)
+    {
+        const int Error = 2, Fatal = 3; // GRIB_LOG_ERROR, GRIB_LOG_FATAL; higher bits are flags
+        if ((level & 0xFF) is Error or Fatal && message != null) _lastError ??= Marshal.PtrToStringUTF8((IntPtr)message)?.Trim();
+    }
+
+    /// <summary>The first error ecCodes reported on this thread since <see cref="ForgetError"/>, as " (ecCodes: …)", or empty.</summary>
+    static string LastError() => _lastError is { Length: > 0 } e ? $" (ecCodes: {e})" : "";
+
+    static void ForgetError() => _lastError = null;
+
     static void Require()
     {
         if (!Available) throw new InvalidDataException(Missing);
@@ -65,6 +85,8 @@ internal static unsafe partial class Eccodes
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_partial_message(void* context, void* data, nuint length);
     [LibraryImport(Name)] private static partial int codes_handle_delete(void* handle);
     [LibraryImport(Name)] private static partial long codes_get_api_version();
+    [LibraryImport(Name)] private static partial void* codes_context_get_default();
+    [LibraryImport(Name)] private static partial void codes_context_set_logging_proc(void* context, delegate* unmanaged<void*, int, byte*, void> log);
     [LibraryImport(Name)] private static partial void* codes_handle_new_from_file(void* context, IntPtr file, int product, int* error);
     [LibraryImport(Name)] private static partial int codes_get_message_size(void* handle, nuint* size);
     [LibraryImport(Name)] private static partial int codes_get_message_offset(void* handle, long* offset);
@@ -130,8 +152,9 @@ internal static unsafe partial class Eccodes
         {
             _where = where;
             Require();
+            ForgetError();
             _handle = headersOnly ? codes_handle_new_from_partial_message(null, bytes, (nuint)length) : codes_handle_new_from_message(null, bytes, (nuint)length);
-            if (_handle == null) throw new InvalidDataException($"{where}: ecCodes cannot decode the message");
+            if (_handle == null) throw new InvalidDataException($"{where}: ecCodes cannot decode the message{LastError()}");
         }
 
         static byte[] Key(string key) => Encoding.ASCII.GetBytes(key + "\0");
@@ -141,7 +164,7 @@ internal static unsafe partial class Eccodes
             fixed (byte* k = Key(key)) return codes_is_defined(_handle, k) != 0;
         }
 
-        public long Long(string key) => LongOrNull(key) ?? throw new InvalidDataException($"{_where}: the message has no '{key}'");
+        public long Long(string key) => LongOrNull(key) ?? throw new InvalidDataException($"{_where}: the message has no '{key}'{LastError()}");
 
         public long? LongOrNull(string key)
         {
@@ -154,7 +177,7 @@ internal static unsafe partial class Eccodes
         {
             double value;
             fixed (byte* k = Key(key))
-                return codes_get_double(_handle, k, &value) == 0 ? value : throw new InvalidDataException($"{_where}: the message has no '{key}'");
+                return codes_get_double(_handle, k, &value) == 0 ? value : throw new InvalidDataException($"{_where}: the message has no '{key}'{LastError()}");
         }
 
         public string? Text(string key)
@@ -175,10 +198,10 @@ internal static unsafe partial class Eccodes
             nuint size;
             fixed (byte* k = Key(key))
             {
-                if (codes_get_size(_handle, k, &size) != 0) throw new InvalidDataException($"{_where}: the message has no '{key}'");
+                if (codes_get_size(_handle, k, &size) != 0) throw new InvalidDataException($"{_where}: the message has no '{key}'{LastError()}");
                 var values = new double[(int)size];
                 fixed (double* v = values)
-                    if (codes_get_double_array(_handle, k, v, &size) != 0) throw new InvalidDataException($"{_where}: ecCodes cannot decode '{key}'");
+                    if (codes_get_double_array(_handle, k, v, &size) != 0) throw new InvalidDataException($"{_where}: ecCodes cannot decode '{key}'{LastError()}");
                 return values;
             }
         }
@@ -200,7 +223,7 @@ internal static unsafe partial class Eccodes
             {
                 // ecCodes refuses a buffer too small and gives back how many values it wrote
                 if (codes_get_double_array(_handle, k, v, &size) != 0 || size != (nuint)target.Length)
-                    throw new InvalidDataException($"{_where}: the message's values do not fill its grid of {target.Length} points");
+                    throw new InvalidDataException($"{_where}: the message's values do not fill its grid of {target.Length} points{LastError()}");
             }
             Narrow(scratch.AsSpan(0, target.Length), target, bitmap ? Marker : double.NaN);
         }
