@@ -3,9 +3,8 @@ namespace GridDrift;
 /// <summary>
 /// What the environment may set for a whole process, read in one place: whether input checksums
 /// and GRIB indexes are remembered and where, where netCDF-C's library is, and where fonts for
-/// plots are. The
-/// command line takes <see cref="FromEnvironment"/>; a program using the library may set
-/// <see cref="Current"/> itself.
+/// plots are. The command line takes <see cref="FromEnvironment"/>; a program using the library
+/// may set <see cref="Current"/> itself.
 /// </summary>
 /// <param name="RememberChecksums">GRIDDRIFT_CHECKSUM_CACHE=off turns it off</param>
 /// <param name="ChecksumFile">$XDG_CACHE_HOME/griddrift/sha256.tsv, else ~/.cache/griddrift/sha256.tsv</param>

@@ -4,9 +4,10 @@ namespace GridDrift.Formats.Zarr;
 
 /// <summary>
 /// Decoded chunks shared by every reader of the process: a chunk that holds several frames is
-/// decoded once, by the first worker that needs it (the others wait for it), and the next chunk
-/// along time is decoded ahead on another core while the workers use this one. Chunks stay while
-/// they are among the most recently used within 128 MB (at least the last two); keys include the
+/// decoded once, by the first worker that needs it (the others wait for it), and the next chunks
+/// along time are decoded ahead, one per core as far as the cache holds them, while the workers
+/// use this one. Chunks stay while they are among the most recently used within 128 MB (at least
+/// the last two; chunks decoded ahead and not yet read count as newest); keys include the
 /// stored object's version, so a rewritten chunk is decoded afresh. A chunk's buffer is kept for
 /// the next chunk of the same size once the chunk is evicted and no reader holds it (at most four
 /// per size): on this machine faulting in fresh pages for every 30 MB chunk cost more than
