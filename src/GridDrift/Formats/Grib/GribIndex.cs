@@ -70,9 +70,10 @@ internal sealed class GribIndex
         while (at < fileLength)
         {
             // messages usually follow one another directly; other bytes between them are searched through
-            long start = at + 16 <= fileLength && RandomAccess.Read(handle, head, at) == 16 && head.AsSpan(0, 4).SequenceEqual("GRIB"u8) ? at : Find(handle, at, fileLength);
+            bool adjoining = at + 16 <= fileLength && RandomAccess.Read(handle, head, at) == 16 && head.AsSpan(0, 4).SequenceEqual("GRIB"u8);
+            long start = adjoining ? at : Find(handle, at, fileLength);
             if (start < 0) break;
-            if (start + 16 > fileLength || RandomAccess.Read(handle, head, start) < 16) throw new InvalidDataException($"message at byte {start} is cut short");
+            if (!adjoining && (start + 16 > fileLength || RandomAccess.Read(handle, head, start) < 16)) throw new InvalidDataException($"message at byte {start} is cut short");
             int edition = head[7];
             long size = edition switch
             {
